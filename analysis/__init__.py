@@ -1,0 +1,1 @@
+"""Continuous-beam analysis of one-way slab strips (knows no design code)."""

@@ -1,0 +1,222 @@
+"""Command line: ``slabwright check PROJECT.yaml`` and ``slabwright --version``.
+
+Thin: parse arguments, call the project reader and the analysis, print, return an exit code
+(0 success, 2 input error). Input errors print one line each on stderr, never a traceback.
+"""
+
+from __future__ import annotations
+
+__all__ = ["EXIT_INPUT_ERROR", "EXIT_OK", "format_check", "main"]
+
+import argparse
+import sys
+from collections.abc import Sequence
+from typing import TextIO
+
+from detailer import CAUTION, __version__
+from detailer.codes.en1990 import category_description
+from detailer.errors import ProjectError
+from detailer.model import EndKind, Project, Segment, Strip
+from detailer.project import load_project
+from detailer.strip_analysis import StripAnalysis, analyse_strip
+
+EXIT_OK = 0
+EXIT_INPUT_ERROR = 2
+
+_END_TEXT = {
+    EndKind.PINNED: "pinned end",
+    EndKind.MONOLITHIC: "monolithic end (fixed)",
+    EndKind.CANTILEVER: "cantilever root",
+}
+
+
+def _parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(
+        prog="slabwright",
+        description="Analysis, design and detailing of continuous one-way RC slab strips.",
+        epilog=CAUTION,
+    )
+    p.add_argument("--version", action="version", version=f"%(prog)s {__version__}\n{CAUTION}")
+    sub = p.add_subparsers(dest="command", metavar="COMMAND")
+    check = sub.add_parser(
+        "check",
+        help="validate a project file and print the analysis of each strip",
+        description="Validate a project file and print spans, loads and the ULS envelope.",
+        epilog=CAUTION,
+    )
+    check.add_argument("project", metavar="PROJECT.yaml", help="project file")
+    return p
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; returns the exit code."""
+    args = _parser().parse_args(argv)
+    if args.command == "check":
+        return _check(args.project, sys.stdout, sys.stderr)
+    _parser().print_help(sys.stdout)
+    print(CAUTION, file=sys.stdout)
+    return EXIT_OK
+
+
+def _check(path: str, out: TextIO, err: TextIO) -> int:
+    try:
+        project = load_project(path)
+    except ProjectError as exc:
+        for e in getattr(exc, "errors", (exc,)):
+            print(str(e), file=err)
+        return EXIT_INPUT_ERROR
+    except OSError as exc:  # load_project converts these; kept as a last guard
+        print(f"{path}: cannot read the file: {exc.strerror or exc}; check the path", file=err)
+        return EXIT_INPUT_ERROR
+    analyses = [analyse_strip(project, s) for s in project.strips]
+    out.write(format_check(path, project, analyses))
+    return EXIT_OK
+
+
+def _num(value: float | None, digits: int = 2, width: int = 9) -> str:
+    if value is None:
+        return "-".rjust(width)
+    return f"{value:{width}.{digits}f}"
+
+
+def _segment_name(seg: Segment) -> str:
+    kind = f"span {seg.span_number}" if seg.span_number else "cantilever"
+    return f"{kind} {seg.label}"
+
+
+def _other_loads(seg: Segment) -> str:
+    parts = []
+    for p in seg.loads.partial:
+        what = " + ".join(
+            f"{c} {v:g} kN/m2" for c, v in (("g", p.g_k_kn_per_m2), ("q", p.q_k_kn_per_m2)) if v
+        )
+        note = f" ({p.description})" if p.description else ""
+        parts.append(f"{what} from {p.start_mm:g} to {p.end_mm:g}{note}")
+    for ln in seg.loads.line:
+        what = " + ".join(
+            f"{c} {v:g} kN/m" for c, v in (("g", ln.g_k_kn_per_m), ("q", ln.q_k_kn_per_m)) if v
+        )
+        note = f" ({ln.description})" if ln.description else ""
+        parts.append(f"line {what} at {ln.a_mm:g}{note}")
+    return "; ".join(parts)
+
+
+def _strip_text(project: Project, strip: Strip, a: StripAnalysis) -> list[str]:
+    title = f"Strip {strip.id}" + (f": {strip.description}" if strip.description else "")
+    origin = (
+        "the free tip of the left cantilever"
+        if strip.has_left_cantilever
+        else f"the centreline of support {strip.supports[0].label}"
+    )
+    psi = strip.psi
+    lines = [
+        title,
+        (
+            f"  h = {strip.thickness_mm:g} mm; cover top {strip.cover_top_mm:g}, bottom "
+            f"{strip.cover_bottom_mm:g}, side {strip.cover_side_mm:g} mm; panel width "
+            f"{strip.panel_width_mm:g} mm; x from {origin}"
+        ),
+        (
+            f"  imposed load category {strip.load_category} "
+            f"({category_description(strip.load_category)}): psi_0 = {psi.psi_0:g}, "
+            f"psi_1 = {psi.psi_1:g}, psi_2 = {psi.psi_2:g} (EN 1990 Table A1.1, UK NA)"
+        ),
+        (
+            f"  self-weight {strip.self_weight_kn_per_m2:.3f} kN/m2 = {strip.thickness_mm / 1000:g} m"
+            f" x {strip.concrete_density_kn_per_m3:g} kN/m3 (EN 1991-1-1 Table A.1)"
+        ),
+        "",
+        "  Support      x (mm)  width (mm)  condition",
+    ]
+    n_sup = len(strip.supports)
+    for k, s in enumerate(strip.supports):
+        if k == 0:
+            cond = _END_TEXT[strip.left_end.kind]
+        elif k == n_sup - 1:
+            cond = _END_TEXT[strip.right_end.kind]
+        else:
+            cond = "continuous"
+        if n_sup == 1:
+            cond = "monolithic cantilever root (fixed)"
+        lines.append(f"  {s.label:<8}{s.x_mm:>11.0f}{s.width_mm:>12.0f}  {cond}")
+    lines += [
+        "",
+        "  Segment            length (mm)  g_k (kN/m2)  q_k (kN/m2)  other loads",
+    ]
+    for seg in strip.segments:
+        lines.append(
+            f"  {_segment_name(seg):<18}{seg.length_mm:>12.0f}"
+            f"{strip.g_k_total_kn_per_m2(seg.index):>13.3f}{seg.loads.q_k_kn_per_m2:>13.2f}"
+            f"  {_other_loads(seg)}".rstrip()
+        )
+    lines.append(
+        "  (g_k includes self-weight; other-load positions in mm from the segment's left end)"
+    )
+
+    uls = a.uls
+    sls = a.sls_quasi_permanent
+    lines += [
+        "",
+        (
+            f"  ULS envelope: EN 1990 Eq. ({uls.combination.value}), arrangements "
+            f"{project.analysis.pattern.value}, redistribution delta {uls.redistribution_delta:.2f}"
+        ),
+        "  Segment            M_max (kNm/m)  at x (mm)  M_max,qp (kNm/m)  governing M_max",
+    ]
+    segs = strip.segments
+    for s, q in zip(uls.span_summaries(), sls.span_summaries(), strict=True):
+        name = _segment_name(segs[s.segment])
+        if s.m_max_knm > 0.0:
+            row = f"{s.m_max_knm:>14.2f}{s.x_mm:>11.0f}{_num(q.m_max_knm if q.m_max_knm > 0 else None, width=18)}"
+            lines.append(f"  {name:<18}{row}  {s.governing.label}")
+        else:
+            lines.append(f"  {name:<18}{'-':>14}{'-':>11}{'-':>18}  no sagging moment")
+    reduce = project.analysis.use_support_reduction
+    head = "  Support   M_cl (kNm/m)  M_face,left  M_face,right"
+    head += "  M_cl,red" if reduce else ""
+    head += "  R_max (kN/m)  governing M_cl"
+    lines.append(head)
+    offset = 1 if strip.has_left_cantilever else 0
+    for s in uls.support_summaries():
+        label = strip.supports[s.node - offset].label
+        row = (
+            f"  {label:<8}{s.m_min_knm:>14.2f}{_num(s.m_left_face_knm, width=13)}"
+            f"{_num(s.m_right_face_knm, width=14)}"
+        )
+        if reduce:
+            row += _num(s.m_min_reduced_knm, width=10)
+        row += f"{s.reaction_max_kn:>14.2f}  {s.governing_m_min.label}"
+        lines.append(row)
+    lines.append("  (moments per metre width, sagging positive; reactions per metre width)")
+    return lines
+
+
+def format_check(path: str, project: Project, analyses: Sequence[StripAnalysis]) -> str:
+    """The text printed by ``slabwright check`` (deterministic for a given file)."""
+    m = project.materials
+    an = project.analysis
+    first = analyses[0] if analyses else None
+    f = first.factors if first is not None else None
+    lines = [
+        f"slabwright {__version__} check: {path}",
+        (
+            f"Project {project.id}: {project.title} (revision {project.revision}, "
+            f"{project.date}, drawing {project.drawing_ref or '-'})"
+        ),
+        (
+            f"Code {project.code_id}; concrete {m.concrete_class} (f_ck {m.f_ck:g} MPa); "
+            f"bars f_yk {m.f_yk:g} MPa, type {m.bar_type}, ductility class {m.ductility_class}; "
+            f"exposure {m.exposure_class}"
+        ),
+    ]
+    if f is not None:
+        lines.append(
+            f"Actions: gamma_G {f.gamma_g_sup:.2f} (favourable {f.gamma_g_inf:.2f}), "
+            f"gamma_Q {f.gamma_q:.2f}, xi {f.xi:.3f} (EN 1990 Table A1.2(B), UK NA); "
+            f"combination {an.combination.value}; arrangements {an.pattern.value}"
+        )
+    for strip, analysis in zip(project.strips, analyses, strict=True):
+        lines.append("")
+        lines += _strip_text(project, strip, analysis)
+    lines += ["", f"OK: {len(project.strips)} strip(s) checked.", CAUTION]
+    return "\n".join(lines) + "\n"

@@ -1,0 +1,622 @@
+"""The build record: what was designed and detailed, and from what, as typed data.
+
+:func:`build_record` gathers a detailed project (:class:`detailer.layout.ProjectDetail`) into
+frozen record objects; :func:`record_to_jsonable` turns them into plain dicts and lists ready
+for ``json.dumps`` (rounded by unit, NumPy scalars made Python floats, keys in field order).
+:func:`previous_marks` reads the mark table back from a stored record, so a later issue can
+keep the marks of unchanged bars. Every field is described in ``docs/record-schema.md``.
+
+Pure: no I/O, no design computation (values are copied from the pipeline's results), except
+the depth of an inner (T2/B2) layer, which is geometry: h - c_nom - phi_outer - phi / 2.
+"""
+
+from __future__ import annotations
+
+__all__ = [
+    "SCHEMA_VERSION",
+    "ActionsRecord",
+    "BarSetRecord",
+    "EndRecord",
+    "EquationRecord",
+    "LayerDepthRecord",
+    "LineLoadRecord",
+    "MarkRecord",
+    "MaterialsRecord",
+    "PartialLoadRecord",
+    "ProjectRecord",
+    "SectionRecord",
+    "SegmentRecord",
+    "StationRecord",
+    "StripRecord",
+    "SupportRecord",
+    "bar_set_record",
+    "build_record",
+    "mark_records",
+    "previous_marks",
+    "record_to_jsonable",
+]
+
+import dataclasses
+import enum
+import math
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass
+from typing import Any, Final
+
+import numpy as np
+
+from analysis.arrangements import PatternRule as AnalysisPatternRule
+from analysis.arrangements import alternate_sets, equations, make_arrangement
+from detailer import CAUTION
+from detailer.layout import (
+    AnchorageLength,
+    BarSet,
+    Check,
+    Face,
+    ProjectDetail,
+    SelfCheck,
+    StripDetail,
+    ZoneDesign,
+)
+from detailer.marks import BarIdentity, layer_sort_key, mark_table
+from detailer.schedule import schedule_rows, summarise
+
+#: Version of the record's layout; raised when a field changes meaning or is removed.
+SCHEMA_VERSION: Final = 1
+
+
+# --------------------------------------------------------------------------------------------
+# Record types (field names carry units; docs/record-schema.md describes each)
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class MaterialsRecord:
+    concrete_class: str
+    f_ck_mpa: float
+    f_ck_cube_mpa: float
+    f_yk_mpa: float
+    bar_type: str
+    ductility_class: str
+    exposure_class: str
+    density_kn_per_m3: float
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class LayerDepthRecord:
+    layer: str
+    phi_mm: int
+    d_mm: float
+    source: str  # how d was found
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class SectionRecord:
+    thickness_mm: float
+    cover_top_mm: float
+    cover_bottom_mm: float
+    cover_side_mm: float
+    panel_width_mm: float
+    effective_depths: tuple[LayerDepthRecord, ...]
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class EndRecord:
+    kind: str
+    cantilever_mm: float
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class SupportRecord:
+    label: str
+    x_mm: float
+    width_mm: float
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class PartialLoadRecord:
+    start_mm: float
+    end_mm: float
+    g_k_kn_per_m2: float
+    q_k_kn_per_m2: float
+    description: str
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class LineLoadRecord:
+    a_mm: float
+    g_k_kn_per_m: float
+    q_k_kn_per_m: float
+    description: str
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class SegmentRecord:
+    index: int
+    label: str
+    kind: str
+    span_number: int | None
+    x_start_mm: float
+    x_end_mm: float
+    length_mm: float
+    self_weight_kn_per_m2: float
+    g_k_superimposed_kn_per_m2: float
+    g_k_kn_per_m2: float  # uniform permanent, self-weight included
+    q_k_kn_per_m2: float
+    partial_loads: tuple[PartialLoadRecord, ...]
+    line_loads: tuple[LineLoadRecord, ...]
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class EquationRecord:
+    name: str
+    gamma_g: float
+    gamma_q: float
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class ActionsRecord:
+    combination: str
+    equations: tuple[EquationRecord, ...]
+    gamma_g_sup: float
+    gamma_g_inf: float
+    gamma_q: float
+    psi_0: float
+    psi_2: float
+    xi: float
+    pattern: str
+    arrangements: tuple[str, ...]
+    redistribution_delta: float
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class StationRecord:
+    x_mm: float
+    segment: int
+    side: int  # -1 limit from the left, +1 from the right, 0 continuous
+    m_max_knm: float
+    m_min_knm: float
+    v_max_kn: float
+    v_min_kn: float
+    m_max_by: str
+    m_min_by: str
+    v_max_by: str
+    v_min_by: str
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class BarSetRecord:
+    mark: str
+    set_id: str
+    role: str
+    layer: str
+    zone_id: str
+    type_and_size: str
+    bar_type: str
+    phi_mm: int
+    spacing_mm: int
+    offset_mm: float
+    count: int
+    x_start_mm: float
+    x_end_mm: float
+    shape_code: str
+    dims_mm: tuple[tuple[str, int], ...]
+    free_dims: tuple[str, ...]
+    sketch_ref: str
+    length_mm: int
+    length_exact_mm: float
+    mass_kg: float  # count x length x mass per metre
+    callout: str
+    note: str
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class StripRecord:
+    id: str
+    description: str
+    section: SectionRecord
+    left_end: EndRecord
+    right_end: EndRecord
+    supports: tuple[SupportRecord, ...]
+    spans_mm: tuple[float, ...]
+    length_mm: float
+    load_category: str
+    concrete_density_kn_per_m3: float
+    segments: tuple[SegmentRecord, ...]
+    actions: ActionsRecord
+    envelope: tuple[StationRecord, ...]
+    zones: tuple[ZoneDesign, ...]  # the design objects themselves (see detailer.layout)
+    bar_sets: tuple[BarSetRecord, ...]
+    anchorage: tuple[AnchorageLength, ...]
+    selfcheck: SelfCheck
+    checks: tuple[Check, ...]  # strip-level checks
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class MarkRecord:
+    mark: str
+    type_and_size: str
+    bar_type: str
+    phi_mm: int
+    shape_code: str
+    dims_mm: tuple[tuple[str, int], ...]
+    free_dims: tuple[str, ...]
+    sketch_ref: str
+    length_mm: int
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class ProjectRecord:
+    schema_version: int
+    project_id: str
+    title: str
+    revision: str
+    date: str
+    drawing_ref: str
+    design_code: str
+    caution: str
+    materials: MaterialsRecord
+    strips: tuple[StripRecord, ...]
+    marks: tuple[MarkRecord, ...]
+    withdrawn_marks: tuple[str, ...]
+    total_mass_kg: float
+
+
+# --------------------------------------------------------------------------------------------
+# Building
+
+
+def _layer_depths(detail: StripDetail) -> tuple[LayerDepthRecord, ...]:
+    """Effective depth of each (layer, bar size) in use.
+
+    Outer layers (T1, B1): the d the zone designs used. Inner layers (T2, B2): h - c_nom -
+    largest outer bar on that face - phi / 2 (the layer's centroid from the far face).
+    """
+    strip = detail.strip
+    h = strip.thickness_mm
+    cover = {Face.TOP: strip.cover_top_mm, Face.BOTTOM: strip.cover_bottom_mm}
+    d_zone: dict[tuple[Face, int], float] = {}
+    for z in detail.zones:
+        key = (z.face, z.phi_mm)
+        d_zone[key] = min(d_zone.get(key, z.d_mm), z.d_mm)
+    used = sorted(
+        {(b.layer, b.phi_mm) for b in detail.bar_sets},
+        key=lambda lp: (layer_sort_key(lp[0]), lp[1]),
+    )
+    outer_max = {
+        face: max((p for layer, p in used if layer == f"{face_letter}1"), default=0)
+        for face, face_letter in ((Face.TOP, "T"), (Face.BOTTOM, "B"))
+    }
+    out = []
+    for layer, phi in used:
+        face = Face.TOP if layer.startswith("T") else Face.BOTTOM
+        if layer.endswith("1") and (face, phi) in d_zone:
+            d, source = d_zone[(face, phi)], "zone design"
+        elif layer.endswith("1"):
+            d, source = h - cover[face] - phi / 2.0, "h - c_nom - phi/2"
+        else:
+            d = h - cover[face] - outer_max[face] - phi / 2.0
+            source = "h - c_nom - phi_outer - phi/2"
+        out.append(LayerDepthRecord(layer=layer, phi_mm=phi, d_mm=d, source=source))
+    return tuple(out)
+
+
+def _section(detail: StripDetail) -> SectionRecord:
+    s = detail.strip
+    return SectionRecord(
+        thickness_mm=s.thickness_mm,
+        cover_top_mm=s.cover_top_mm,
+        cover_bottom_mm=s.cover_bottom_mm,
+        cover_side_mm=s.cover_side_mm,
+        panel_width_mm=s.panel_width_mm,
+        effective_depths=_layer_depths(detail),
+    )
+
+
+def _segments(detail: StripDetail) -> tuple[SegmentRecord, ...]:
+    strip = detail.strip
+    g_sw = strip.self_weight_kn_per_m2
+    out = []
+    for seg in strip.segments:
+        loads = seg.loads
+        out.append(
+            SegmentRecord(
+                index=seg.index,
+                label=seg.label,
+                kind=seg.kind.value,
+                span_number=seg.span_number,
+                x_start_mm=seg.x_start_mm,
+                x_end_mm=seg.x_end_mm,
+                length_mm=seg.length_mm,
+                self_weight_kn_per_m2=g_sw,
+                g_k_superimposed_kn_per_m2=loads.g_k_kn_per_m2,
+                g_k_kn_per_m2=strip.g_k_total_kn_per_m2(seg.index),
+                q_k_kn_per_m2=loads.q_k_kn_per_m2,
+                partial_loads=tuple(
+                    PartialLoadRecord(
+                        start_mm=p.start_mm,
+                        end_mm=p.end_mm,
+                        g_k_kn_per_m2=p.g_k_kn_per_m2,
+                        q_k_kn_per_m2=p.q_k_kn_per_m2,
+                        description=p.description,
+                    )
+                    for p in loads.partial
+                ),
+                line_loads=tuple(
+                    LineLoadRecord(
+                        a_mm=ln.a_mm,
+                        g_k_kn_per_m=ln.g_k_kn_per_m,
+                        q_k_kn_per_m=ln.q_k_kn_per_m,
+                        description=ln.description,
+                    )
+                    for ln in loads.line
+                ),
+            )
+        )
+    return tuple(out)
+
+
+def _actions(detail: StripDetail) -> ActionsRecord:
+    an = detail.analysis
+    env = an.uls
+    f = an.factors
+    eqs = equations(an.combination, f)
+    if an.pattern is AnalysisPatternRule.ALL_AND_ALTERNATE:
+        sets = alternate_sets(an.model.n_segments)
+        labels = tuple(make_arrangement(an.model, e.name, s).label for e in eqs for s in sets)
+    else:
+        labels = ()  # every subset of loaded segments: too many to list
+    return ActionsRecord(
+        combination=an.combination.value,
+        equations=tuple(EquationRecord(e.name, e.gamma_g, e.gamma_q) for e in eqs),
+        gamma_g_sup=f.gamma_g_sup,
+        gamma_g_inf=f.gamma_g_inf,
+        gamma_q=f.gamma_q,
+        psi_0=f.psi_0,
+        psi_2=f.psi_2,
+        xi=f.xi,
+        pattern=an.pattern.value,
+        arrangements=labels,
+        redistribution_delta=env.redistribution_delta,
+    )
+
+
+def _stations(detail: StripDetail) -> tuple[StationRecord, ...]:
+    env = detail.analysis.uls
+    st = env.stations
+    out = []
+    for i in range(len(st)):
+        out.append(
+            StationRecord(
+                x_mm=float(st.x_mm[i]),
+                segment=int(st.segment[i]),
+                side=int(st.side[i]),
+                m_max_knm=float(env.m_max_knm[i]),
+                m_min_knm=float(env.m_min_knm[i]),
+                v_max_kn=float(env.v_max_kn[i]),
+                v_min_kn=float(env.v_min_kn[i]),
+                m_max_by=env.governing("m_max", i).label,
+                m_min_by=env.governing("m_min", i).label,
+                v_max_by=env.governing("v_max", i).label,
+                v_min_by=env.governing("v_min", i).label,
+            )
+        )
+    return tuple(out)
+
+
+def bar_set_record(b: BarSet) -> BarSetRecord:
+    """The record of one (marked) bar set."""
+    shape = b.shape
+    return BarSetRecord(
+        mark=b.mark,
+        set_id=b.set_id,
+        role=b.role.value,
+        layer=b.layer,
+        zone_id=b.zone_id,
+        type_and_size=f"{b.bar_type}{b.phi_mm}",
+        bar_type=b.bar_type,
+        phi_mm=b.phi_mm,
+        spacing_mm=b.spacing_mm,
+        offset_mm=b.offset_mm,
+        count=b.count,
+        x_start_mm=b.x_start_mm,
+        x_end_mm=b.x_end_mm,
+        shape_code=shape.code,
+        dims_mm=tuple(shape.dims_mm),
+        free_dims=tuple(shape.free_dims),
+        sketch_ref=shape.shape.sketch_ref,
+        length_mm=shape.length_mm,
+        length_exact_mm=shape.length_exact_mm,
+        mass_kg=b.count * shape.mass_kg,
+        callout=b.callout,
+        note=b.note,
+    )
+
+
+def _strip(detail: StripDetail) -> StripRecord:
+    s = detail.strip
+    return StripRecord(
+        id=s.id,
+        description=s.description,
+        section=_section(detail),
+        left_end=EndRecord(kind=s.left_end.kind.value, cantilever_mm=s.left_end.cantilever_mm),
+        right_end=EndRecord(kind=s.right_end.kind.value, cantilever_mm=s.right_end.cantilever_mm),
+        supports=tuple(SupportRecord(x.label, x.x_mm, x.width_mm) for x in s.supports),
+        spans_mm=tuple(s.spans_mm),
+        length_mm=s.length_mm,
+        load_category=s.load_category,
+        concrete_density_kn_per_m3=s.concrete_density_kn_per_m3,
+        segments=_segments(detail),
+        actions=_actions(detail),
+        envelope=_stations(detail),
+        zones=detail.zones,
+        bar_sets=tuple(bar_set_record(b) for b in detail.bar_sets),
+        anchorage=detail.anchorage,
+        selfcheck=detail.selfcheck,
+        checks=detail.checks,
+    )
+
+
+def mark_records(strips_bar_sets: Iterable[Iterable[BarSet]]) -> tuple[MarkRecord, ...]:
+    """The project's mark table as records (one per mark, in mark order)."""
+    return tuple(
+        MarkRecord(
+            mark=e.mark,
+            type_and_size=e.identity.type_and_size,
+            bar_type=e.identity.bar_type,
+            phi_mm=e.identity.phi_mm,
+            shape_code=e.identity.shape_code,
+            dims_mm=e.identity.dims_mm,
+            free_dims=e.identity.free_dims,
+            sketch_ref=e.identity.sketch_ref,
+            length_mm=e.identity.length_mm,
+        )
+        for e in mark_table(strips_bar_sets)
+    )
+
+
+def build_record(detail: ProjectDetail, *, withdrawn_marks: Sequence[str] = ()) -> ProjectRecord:
+    """The record of a detailed project whose bar sets carry their marks.
+
+    ``withdrawn_marks``: marks issued before and no longer used (kept so they are never given
+    to another bar; see :func:`detailer.marks.withdrawn_marks`).
+    """
+    p = detail.project
+    m = p.materials
+    bar_sets = [s.bar_sets for s in detail.strips]
+    all_sets = [b for s in detail.strips for b in s.bar_sets]
+    summary = summarise(schedule_rows(all_sets, revision=p.revision))
+    return ProjectRecord(
+        schema_version=SCHEMA_VERSION,
+        project_id=p.id,
+        title=p.title,
+        revision=p.revision,
+        date=p.date,
+        drawing_ref=p.drawing_ref,
+        design_code=p.code_id,
+        caution=CAUTION,
+        materials=MaterialsRecord(
+            concrete_class=m.concrete_class,
+            f_ck_mpa=m.f_ck,
+            f_ck_cube_mpa=m.f_ck_cube,
+            f_yk_mpa=m.f_yk,
+            bar_type=m.bar_type,
+            ductility_class=m.ductility_class,
+            exposure_class=m.exposure_class,
+            density_kn_per_m3=m.density_kn_per_m3,
+        ),
+        strips=tuple(_strip(s) for s in detail.strips),
+        marks=mark_records(bar_sets),
+        withdrawn_marks=tuple(withdrawn_marks),
+        total_mass_kg=math.fsum(line.mass_kg for line in summary),
+    )
+
+
+# --------------------------------------------------------------------------------------------
+# To JSON-ready data
+
+# Decimal places by the unit suffix of a field name; dimensionless floats get _DEFAULT_DP.
+_DP_BY_SUFFIX: Final[tuple[tuple[str, int], ...]] = (
+    ("_mm2_per_m", 1),
+    ("_mm2", 1),
+    ("_kg_per_m", 4),
+    ("_mm", 1),
+    ("_kg", 3),
+    ("_knm_per_m", 3),
+    ("_knm", 3),
+    ("_kn_per_m2", 3),
+    ("_kn_per_m3", 3),
+    ("_kn_per_m", 3),
+    ("_kn", 3),
+    ("_mpa", 3),
+)
+_DEFAULT_DP: Final = 4
+_OBJECT_FIELDS: Final = frozenset({"dims_mm"})  # (name, value) pairs written as a JSON object
+
+
+def _decimals(field_name: str) -> int:
+    for suffix, dp in _DP_BY_SUFFIX:
+        if field_name.endswith(suffix):
+            return dp
+    return _DEFAULT_DP
+
+
+def _number(value: float, dp: int) -> float | int | None:
+    x = float(value)
+    if not math.isfinite(x):
+        return None
+    r = round(x, dp)
+    if r == 0:
+        return 0  # no "-0.0"
+    if dp <= 1 and r == int(r):
+        return int(r)  # whole mm written as integers
+    return r
+
+
+def _convert(value: Any, name: str) -> Any:
+    if isinstance(value, (bool, np.bool_)):
+        return bool(value)
+    if isinstance(value, enum.Enum):
+        return _convert(value.value, name)
+    if isinstance(value, (int, np.integer)):
+        return int(value)
+    if isinstance(value, (float, np.floating)):
+        return _number(value, _decimals(name))
+    if value is None or isinstance(value, str):
+        return value
+    if dataclasses.is_dataclass(value) and not isinstance(value, type):
+        out = {f.name: _convert(getattr(value, f.name), f.name) for f in dataclasses.fields(value)}
+        if isinstance(value, Check):  # a property, wanted in the record
+            out["utilisation"] = _number(value.utilisation, _DEFAULT_DP)
+        return out
+    if name in _OBJECT_FIELDS:
+        return {str(k): _convert(v, name) for k, v in value}
+    if isinstance(value, Mapping):
+        return {str(k): _convert(v, name) for k, v in value.items()}
+    if isinstance(value, (tuple, list, np.ndarray)):
+        return [_convert(v, name) for v in value]
+    raise TypeError(f"cannot put {type(value).__name__} ({name}) in the record")
+
+
+def record_to_jsonable(record: ProjectRecord) -> dict[str, Any]:
+    """Plain dicts, lists, str, int, float, bool and None; keys in field order.
+
+    Floats are rounded by the unit suffix of their field name (mm to 0.1 mm, whole mm as
+    integers; mm2/m to 0.1; kN, kNm, MPa, kN/m2 to 0.001; kg to 0.001; other numbers to
+    0.0001); infinite values become null.
+    """
+    return _convert(record, "")
+
+
+# --------------------------------------------------------------------------------------------
+# Reading the mark table back (for a later issue)
+
+
+def previous_marks(data: Mapping[str, Any]) -> tuple[dict[BarIdentity, str], tuple[str, ...]]:
+    """(identity -> mark, withdrawn marks) from a record loaded with ``json.load``.
+
+    Raises ``ValueError`` (one line) if the record is not a slabwright record this version
+    can read.
+    """
+    version = data.get("schema_version") if isinstance(data, Mapping) else None
+    if version != SCHEMA_VERSION:
+        raise ValueError(
+            f"record schema_version {version!r} is not {SCHEMA_VERSION}; "
+            "rebuild the earlier issue with this version or start the marks afresh"
+        )
+    table: dict[BarIdentity, str] = {}
+    try:
+        for m in data["marks"]:
+            identity = BarIdentity(
+                bar_type=str(m["bar_type"]),
+                phi_mm=int(m["phi_mm"]),
+                shape_code=str(m["shape_code"]),
+                dims_mm=tuple((str(k), int(v)) for k, v in m["dims_mm"].items()),
+                free_dims=tuple(str(x) for x in m["free_dims"]),
+                sketch_ref=str(m["sketch_ref"]),
+                length_mm=int(m["length_mm"]),
+            )
+            table[identity] = str(m["mark"])
+        withdrawn = tuple(str(x) for x in data["withdrawn_marks"])
+    except (KeyError, TypeError, ValueError, AttributeError) as exc:
+        raise ValueError(f"record mark table is damaged ({exc!r}); rebuild the earlier issue") from None
+    return table, withdrawn

@@ -1,0 +1,162 @@
+"""From a project strip to its analysis: beam model, characteristic loads, envelopes.
+
+Pure functions, no I/O. The analysis package knows no design code; the factors it needs come
+from ``detailer.codes.en1990`` here.
+"""
+
+from __future__ import annotations
+
+__all__ = [
+    "StripAnalysis",
+    "action_factors",
+    "analyse_strip",
+    "flexural_stiffness_knm2",
+    "strip_beam_model",
+    "strip_loads",
+]
+
+from dataclasses import dataclass
+
+from analysis.arrangements import ActionFactors
+from analysis.arrangements import Combination as AnalysisCombination
+from analysis.arrangements import PatternRule as AnalysisPatternRule
+from analysis.beam import BeamModel, Load, PointLoad, Restraint, UniformLoad
+from analysis.envelope import StripEnvelope, analyse_envelope
+from detailer.codes.en1990 import partial_factors
+from detailer.model import Combination, EndKind, PatternRule, Project, Strip
+
+_RESTRAINT = {EndKind.PINNED: Restraint.PINNED, EndKind.MONOLITHIC: Restraint.FIXED}
+_COMBINATION = {
+    Combination.EQ_6_10: AnalysisCombination.EQ_6_10,
+    Combination.EQ_6_10AB: AnalysisCombination.EQ_6_10AB,
+}
+_PATTERN = {
+    PatternRule.UK_SIMPLIFIED: AnalysisPatternRule.ALL_AND_ALTERNATE,
+    PatternRule.ALL_SUBSETS: AnalysisPatternRule.ALL_SUBSETS,
+}
+
+
+@dataclass(frozen=True, slots=True)
+class StripAnalysis:
+    """Envelopes of one strip and everything that produced them."""
+
+    strip_id: str
+    model: BeamModel
+    permanent: tuple[Load, ...]  # characteristic G_k, self-weight included
+    variable: tuple[Load, ...]  # characteristic Q_k
+    factors: ActionFactors
+    combination: AnalysisCombination  # ULS combination used for ``uls``
+    pattern: AnalysisPatternRule  # arrangements of the variable load (ULS and SLS)
+    redistribution_delta: float  # applied to ``uls`` only
+    uls: StripEnvelope  # ULS, EN 1990 Eq. (6.10) or (6.10a/b)
+    sls_quasi_permanent: StripEnvelope  # SLS quasi-permanent, EN 1990 Eq. (6.16b), elastic
+
+
+def flexural_stiffness_knm2(strip: Strip, f_ck: float) -> float:
+    """Uncracked short-term EI per metre width: E_cm x h^3 / 12, in kNm2.
+
+    E_cm = 22 (f_cm / 10)^0.3 GPa with f_cm = f_ck + 8 MPa (EN 1992-1-1:2004, Table 3.1).
+    Moments and shears of a prismatic strip do not depend on EI; deflections do.
+    """
+    e_cm_kn_per_m2 = 22.0 * ((f_ck + 8.0) / 10.0) ** 0.3 * 1.0e6
+    h_m = strip.thickness_mm / 1000.0
+    return e_cm_kn_per_m2 * h_m**3 / 12.0
+
+
+def strip_beam_model(strip: Strip, f_ck: float = 30.0) -> BeamModel:
+    """Nodes at the free tips and support centrelines; monolithic end FIXED, pinned PINNED."""
+    nodes = strip.node_x_mm
+    n = len(nodes)
+    restraints = [Restraint.PINNED] * n
+    widths = [0.0] * n
+    offset = 1 if strip.has_left_cantilever else 0
+    for k, support in enumerate(strip.supports):
+        widths[offset + k] = support.width_mm
+    if strip.has_left_cantilever:
+        restraints[0] = Restraint.FREE
+    else:
+        restraints[0] = _RESTRAINT[strip.left_end.kind]
+    if strip.has_right_cantilever:
+        restraints[-1] = Restraint.FREE
+    else:
+        restraints[-1] = _RESTRAINT[strip.right_end.kind]
+    return BeamModel(
+        node_x_mm=nodes,
+        restraints=tuple(restraints),
+        support_width_mm=tuple(widths),
+        ei_knm2=flexural_stiffness_knm2(strip, f_ck),
+    )
+
+
+def strip_loads(strip: Strip) -> tuple[tuple[Load, ...], tuple[Load, ...]]:
+    """(permanent, variable) characteristic loads per segment; self-weight added to permanent.
+
+    On a 1 m strip an area load in kN/m2 is a line load in kN/m and a line load across the
+    strip in kN/m is a point load in kN.
+    """
+    g_sw = strip.self_weight_kn_per_m2
+    permanent: list[Load] = []
+    variable: list[Load] = []
+    for seg in strip.segments:
+        i, loads = seg.index, seg.loads
+        permanent.append(UniformLoad(i, g_sw + loads.g_k_kn_per_m2))
+        if loads.q_k_kn_per_m2 > 0:
+            variable.append(UniformLoad(i, loads.q_k_kn_per_m2))
+        for p in loads.partial:
+            if p.g_k_kn_per_m2 > 0:
+                permanent.append(UniformLoad(i, p.g_k_kn_per_m2, p.start_mm, p.end_mm))
+            if p.q_k_kn_per_m2 > 0:
+                variable.append(UniformLoad(i, p.q_k_kn_per_m2, p.start_mm, p.end_mm))
+        for ln in loads.line:
+            if ln.g_k_kn_per_m > 0:
+                permanent.append(PointLoad(i, ln.g_k_kn_per_m, ln.a_mm))
+            if ln.q_k_kn_per_m > 0:
+                variable.append(PointLoad(i, ln.q_k_kn_per_m, ln.a_mm))
+    return tuple(permanent), tuple(variable)
+
+
+def action_factors(strip: Strip, national_annex: str = "UK") -> ActionFactors:
+    """Partial factors (EN 1990 Table A1.2(B) + NA) and the strip's psi factors (Table A1.1)."""
+    pf = partial_factors(national_annex)
+    return ActionFactors(
+        gamma_g_sup=pf.gamma_g_sup,
+        gamma_g_inf=pf.gamma_g_inf,
+        gamma_q=pf.gamma_q,
+        psi_0=strip.psi.psi_0,
+        psi_2=strip.psi.psi_2,
+        xi=pf.xi,
+    )
+
+
+def analyse_strip(project: Project, strip: Strip) -> StripAnalysis:
+    """ULS envelope (with the project's redistribution) and quasi-permanent SLS envelope."""
+    model = strip_beam_model(strip, project.materials.f_ck)
+    permanent, variable = strip_loads(strip)
+    factors = action_factors(strip)
+    combination = _COMBINATION[project.analysis.combination]
+    pattern = _PATTERN[project.analysis.pattern]
+    delta = project.analysis.redistribution_delta
+    uls = analyse_envelope(
+        model, permanent, variable, factors, combination, pattern, redistribution_delta=delta
+    )
+    sls = analyse_envelope(
+        model,
+        permanent,
+        variable,
+        factors,
+        AnalysisCombination.QUASI_PERMANENT,
+        pattern,
+        redistribution_delta=1.0,
+    )
+    return StripAnalysis(
+        strip_id=strip.id,
+        model=model,
+        permanent=permanent,
+        variable=variable,
+        factors=factors,
+        combination=combination,
+        pattern=pattern,
+        redistribution_delta=delta,
+        uls=uls,
+        sls_quasi_permanent=sls,
+    )
