@@ -53,12 +53,14 @@ class ActionFactors:
         for f in fields(self):
             value = getattr(self, f.name)
             if isinstance(value, bool) or not isinstance(value, (int, float)):
-                raise ValueError(f"ActionFactors.{f.name} must be a number, got {value!r}")
+                raise TypeError(f"ActionFactors.{f.name} must be a number, got {value!r}")
             if not math.isfinite(value) or value < 0:
                 raise ValueError(f"ActionFactors.{f.name} must be finite and >= 0, got {value}")
         for name in ("psi_0", "psi_2", "xi"):
             if getattr(self, name) > 1.0:
-                raise ValueError(f"ActionFactors.{name} must not exceed 1, got {getattr(self, name)}")
+                raise ValueError(
+                    f"ActionFactors.{name} must not exceed 1, got {getattr(self, name)}"
+                )
 
 
 class Combination(enum.Enum):
@@ -125,7 +127,7 @@ def alternate_sets(n_segments: int) -> tuple[tuple[int, ...], ...]:
 def segment_name(
     segment: int, n_segments: int, left_cantilever: bool, right_cantilever: bool
 ) -> str:
-    """"span k" (1-based, counting spans only), "left cantilever" or "right cantilever"."""
+    """ "span k" (1-based, counting spans only), "left cantilever" or "right cantilever"."""
     if left_cantilever and segment == 0:
         return "left cantilever"
     if right_cantilever and segment == n_segments - 1:

@@ -56,14 +56,14 @@ class BandedCholesky:
         """Solve A x = b for one (``(n,)``) or many (``(n, m)``) right-hand sides."""
         b = np.asarray(b, dtype=float)
         single = b.ndim == 1
-        y = np.array(b.reshape(self.n, -1), dtype=float, order="C")
-        if y.shape[0] != self.n:
+        if b.ndim not in (1, 2) or b.shape[0] != self.n:
             raise ValueError(f"right-hand side has {b.shape[0]} rows, the matrix has {self.n}")
+        y = np.array(b.reshape(self.n, -1), dtype=float, order="C")
         n, p = self.n, self.bandwidth
         diag = self.lower[0]
         # rows[j, t] = L[j, j - p + t]: the sub-diagonal entries of row j, left to right.
         rows = np.zeros((n, p))
-        for k in range(1, p + 1):
+        for k in range(1, min(p, n - 1) + 1):
             rows[k:, p - k] = self.lower[k, : n - k]
         # Forward substitution L y = b.
         for j in range(n):
@@ -113,7 +113,7 @@ def cholesky_banded(ab: np.ndarray) -> BandedCholesky:
                 a[k - i][j + i] -= col[k - 1] * ci
     lower = np.array(a, dtype=float).reshape(p1, n)
     for k in range(1, p1):
-        lower[k, n - k :] = 0.0
+        lower[k, max(n - k, 0) :] = 0.0  # entries past the end of the matrix
     return BandedCholesky(lower)
 
 

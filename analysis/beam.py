@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import enum
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 
@@ -92,6 +93,43 @@ class BeamModel:
             raise ValueError("a single cantilever needs a fixed root")
         if not (self.ei_knm2 > 0 and math.isfinite(self.ei_knm2)):
             raise ValueError("EI must be positive")
+
+    @classmethod
+    def from_spans(
+        cls,
+        lengths_mm: Sequence[float],
+        left: Restraint = Restraint.PINNED,
+        right: Restraint = Restraint.PINNED,
+        support_width_mm: float | Sequence[float] = 0.0,
+        ei_knm2: float = 1.0e5,
+        station_spacing_fraction: float = 1.0 / 20.0,
+    ) -> BeamModel:
+        """A model from segment lengths (left to right, x = 0 at the first node).
+
+        Interior nodes are PINNED; a FREE end makes its end segment a cantilever. A single
+        width applies to every supported node (a free end gets 0); a sequence gives one
+        width per node.
+        """
+        x = [0.0]
+        for length in lengths_mm:
+            x.append(x[-1] + float(length))
+        n = len(x)
+        restraints = [Restraint.PINNED] * n
+        restraints[0], restraints[-1] = left, right
+        if isinstance(support_width_mm, (int, float)):
+            widths = [float(support_width_mm)] * n
+        else:
+            widths = [float(w) for w in support_width_mm]
+        for i in (0, n - 1):
+            if restraints[i] is Restraint.FREE and len(widths) == n:
+                widths[i] = 0.0
+        return cls(
+            tuple(x),
+            tuple(restraints),
+            tuple(widths),
+            ei_knm2=ei_knm2,
+            station_spacing_fraction=station_spacing_fraction,
+        )
 
     @property
     def n_segments(self) -> int:

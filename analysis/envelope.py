@@ -320,7 +320,7 @@ def _check_assigned(model: BeamModel, loads: Sequence[Load], what: str) -> None:
     for i, load in enumerate(loads):
         seg = getattr(load, "segment", None)
         if isinstance(seg, bool) or not isinstance(seg, (int, np.integer)):
-            raise ValueError(f"{what} load {i}: needs a segment index, got {seg!r}")
+            raise TypeError(f"{what} load {i}: needs a segment index, got {seg!r}")
 
 
 def analyse_envelope(
@@ -341,7 +341,7 @@ def analyse_envelope(
     """
     delta = check_delta(redistribution_delta)
     if not isinstance(factors, ActionFactors):
-        raise ValueError("factors must be an ActionFactors")
+        raise TypeError(f"factors must be an ActionFactors, got {type(factors).__name__}")
     eqs = equations(Combination(combination), factors)
     pattern = PatternRule(pattern)
     _check_assigned(model, permanent, "permanent")

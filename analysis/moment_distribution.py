@@ -197,4 +197,3 @@ def moment_in_segment(
             covered = min(max(x - c, 0.0), d - c)  # loaded length left of x
             m -= q * covered * (x - (c + covered / 2.0))
     return m
-

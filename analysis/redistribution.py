@@ -35,7 +35,7 @@ __all__ = [
 def check_delta(delta: float) -> float:
     """Validate the redistribution ratio delta (EN 1992-1-1 5.5(4) symbol)."""
     if isinstance(delta, bool) or not isinstance(delta, (int, float)):
-        raise ValueError(f"redistribution ratio delta must be a number, got {delta!r}")
+        raise TypeError(f"redistribution ratio delta must be a number, got {delta!r}")
     if not (math.isfinite(delta) and 0.0 < delta <= 1.0):
         raise ValueError(f"redistribution ratio delta must satisfy 0 < delta <= 1, got {delta}")
     return float(delta)

@@ -94,16 +94,14 @@ def load_table(
     tol = POSITION_TOL_MM
     for k, loads in enumerate(cases):
         for i, load in enumerate(loads):
-            kind = type(load)
-            j = getattr(load, "segment", None)
-            if kind is not UniformLoad and kind is not PointLoad:
-                if not isinstance(load, (UniformLoad, PointLoad)):
-                    raise _fail(
-                        _where(names, k, i),
-                        f"expected UniformLoad or PointLoad, got {type(load).__name__}",
-                    )
+            if not isinstance(load, (UniformLoad, PointLoad)):
+                raise TypeError(
+                    f"{_where(names, k, i)}: expected UniformLoad or PointLoad, "
+                    f"got {type(load).__name__}"
+                )
+            j = load.segment
             if type(j) is not int and (isinstance(j, bool) or not isinstance(j, np.integer)):
-                raise _fail(_where(names, k, i), f"segment {j!r} must be an integer index")
+                raise TypeError(f"{_where(names, k, i)}: segment {j!r} must be an integer index")
             if not 0 <= j < n_seg:
                 raise _fail(
                     _where(names, k, i),
@@ -116,7 +114,8 @@ def load_table(
                     raise _fail(_where(names, k, i), "point load must be a finite number of kN")
                 if not (isfinite(a) and -tol <= a <= length + tol):
                     raise _fail(
-                        _where(names, k, i), f"a_mm = {a!r} must lie on the segment (0..{length} mm)"
+                        _where(names, k, i),
+                        f"a_mm = {a!r} must lie on the segment (0..{length} mm)",
                     )
                 a = min(max(a, 0.0), length)
                 lo = hi = a

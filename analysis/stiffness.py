@@ -202,7 +202,7 @@ def _element_matrices(length_m: np.ndarray, ei: float) -> np.ndarray:
     )
     # Powers of L for each entry: v-v 0, v-th 1, th-th 2.
     power = np.array([[0, 1, 0, 1], [1, 2, 1, 2], [0, 1, 0, 1], [1, 2, 1, 2]])
-    return ei * base[None] * length**power[None] / length**3
+    return ei * base[None] * length ** power[None] / length**3
 
 
 def _fixed_end_actions(table: LoadTable, length_by_seg: np.ndarray) -> np.ndarray:
@@ -296,8 +296,11 @@ def _solve_table(model: BeamModel, table: LoadTable, stations: Stations) -> Node
     fe_el = np.zeros((n_el, 4, n_cases))
     np.add.at(
         fe_el,
-        (np.repeat(table.segment, 4), np.tile(np.arange(4), table.segment.size),
-         np.repeat(table.case, 4)),
+        (
+            np.repeat(table.segment, 4),
+            np.tile(np.arange(4), table.segment.size),
+            np.repeat(table.case, 4),
+        ),
         fea.ravel(),
     )
     f_full = np.zeros((n_nodes, 2, n_cases))

@@ -15,12 +15,15 @@ from typing import TextIO
 
 from detailer import CAUTION, __version__
 from detailer.codes.en1990 import category_description
-from detailer.errors import ProjectError
+from detailer.errors import DesignError, InputError, ProjectError
 from detailer.model import EndKind, Project, Segment, Strip
 from detailer.project import load_project
+from detailer.pipeline import default_code, detail_strip
 from detailer.strip_analysis import StripAnalysis, analyse_strip
+from detailer.summary import design_lines
 
 EXIT_OK = 0
+EXIT_DESIGN_FAILED = 1
 EXIT_INPUT_ERROR = 2
 
 _END_TEXT = {
@@ -36,7 +39,7 @@ def _parser() -> argparse.ArgumentParser:
         description="Analysis, design and detailing of continuous one-way RC slab strips.",
         epilog=CAUTION,
     )
-    p.add_argument("--version", action="version", version=f"%(prog)s {__version__}\n{CAUTION}")
+    p.add_argument("--version", action="store_true", help="print the version and exit")
     sub = p.add_subparsers(dest="command", metavar="COMMAND")
     check = sub.add_parser(
         "check",
@@ -45,14 +48,30 @@ def _parser() -> argparse.ArgumentParser:
         epilog=CAUTION,
     )
     check.add_argument("project", metavar="PROJECT.yaml", help="project file")
+    build = sub.add_parser(
+        "build",
+        help="design and detail every strip and write schedule, record and drawings",
+        description=(
+            "Analyse, design and detail every strip of a project and write the bar-bending "
+            "schedule and the record into output/<project-id>/ (or --out DIR)."
+        ),
+        epilog=CAUTION,
+    )
+    build.add_argument("project", metavar="PROJECT.yaml", help="project file")
+    build.add_argument("--out", metavar="DIR", help="output folder (default output/<project-id>/)")
     return p
 
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     args = _parser().parse_args(argv)
+    if args.version:
+        print(f"slabwright {__version__}\n{CAUTION}")
+        return EXIT_OK
     if args.command == "check":
         return _check(args.project, sys.stdout, sys.stderr)
+    if args.command == "build":
+        return _build(args.project, args.out, sys.stdout, sys.stderr)
     _parser().print_help(sys.stdout)
     print(CAUTION, file=sys.stdout)
     return EXIT_OK
@@ -68,8 +87,59 @@ def _check(path: str, out: TextIO, err: TextIO) -> int:
     except OSError as exc:  # load_project converts these; kept as a last guard
         print(f"{path}: cannot read the file: {exc.strerror or exc}; check the path", file=err)
         return EXIT_INPUT_ERROR
-    analyses = [analyse_strip(project, s) for s in project.strips]
-    out.write(format_check(path, project, analyses))
+    code = default_code(project)
+    analyses: list[StripAnalysis] = []
+    designs: list[list[str]] = []
+    failures = 0
+    for strip in project.strips:
+        try:
+            detail = detail_strip(project, strip, code)
+        except DesignError as exc:
+            analyses.append(analyse_strip(project, strip))
+            designs.append(["", f"  DESIGN FAILS: {exc}"])
+            print(str(exc), file=err)
+            failures += 1
+            continue
+        analyses.append(detail.analysis)
+        designs.append(design_lines(detail, project.materials.bar_type))
+    out.write(format_check(path, project, analyses, designs))
+    return EXIT_DESIGN_FAILED if failures else EXIT_OK
+
+
+def _build(path: str, out_dir: str | None, out: TextIO, err: TextIO) -> int:
+    from detailer.build import BuildFailed, build
+
+    try:
+        result, folder = build(path, out_dir)
+    except ProjectError as exc:
+        for e in getattr(exc, "errors", (exc,)):
+            print(str(e), file=err)
+        return EXIT_INPUT_ERROR
+    except BuildFailed as exc:
+        for strip_id, reason in exc.failures:
+            print(reason, file=err)
+        print(f"{path}: {exc}; no files were written", file=err)
+        print(CAUTION, file=err)
+        return EXIT_DESIGN_FAILED
+    except InputError as exc:  # e.g. an output folder that cannot be written
+        print(str(exc), file=err)
+        return EXIT_INPUT_ERROR
+    detail = result.detail
+    out.write(f"slabwright {__version__} build: {path}\n")
+    out.write(f"Project {detail.project.id}: {detail.project.title} (revision {detail.project.revision})\n")
+    for sd in detail.strips:
+        sc = sd.selfcheck
+        n_bars = sum(b.count for b in sd.bar_sets)
+        out.write(
+            f"  strip {sd.strip.id}: {len(sd.zones)} zones, {len(sd.bar_sets)} bar sets, "
+            f"{n_bars} bars; self-check utilisation {sc.utilisation_max:.2f} at x = "
+            f"{sc.x_at_mm:.0f} mm ({sc.face.value})\n"
+        )
+    total = sum(line.mass_kg for line in result.schedule.summary)
+    out.write(f"  total mass of reinforcement {total:.1f} kg\n")
+    for name, _ in result.files:
+        out.write(f"  wrote {folder / name}\n")
+    out.write(CAUTION + "\n")
     return EXIT_OK
 
 
@@ -191,7 +261,12 @@ def _strip_text(project: Project, strip: Strip, a: StripAnalysis) -> list[str]:
     return lines
 
 
-def format_check(path: str, project: Project, analyses: Sequence[StripAnalysis]) -> str:
+def format_check(
+    path: str,
+    project: Project,
+    analyses: Sequence[StripAnalysis],
+    designs: Sequence[Sequence[str]] | None = None,
+) -> str:
     """The text printed by ``slabwright check`` (deterministic for a given file)."""
     m = project.materials
     an = project.analysis
@@ -215,8 +290,16 @@ def format_check(path: str, project: Project, analyses: Sequence[StripAnalysis])
             f"gamma_Q {f.gamma_q:.2f}, xi {f.xi:.3f} (EN 1990 Table A1.2(B), UK NA); "
             f"combination {an.combination.value}; arrangements {an.pattern.value}"
         )
-    for strip, analysis in zip(project.strips, analyses, strict=True):
+    designs = designs if designs is not None else [[] for _ in analyses]
+    failed = 0
+    for strip, analysis, design in zip(project.strips, analyses, designs, strict=True):
         lines.append("")
         lines += _strip_text(project, strip, analysis)
-    lines += ["", f"OK: {len(project.strips)} strip(s) checked.", CAUTION]
+        lines += list(design)
+        failed += any("DESIGN FAILS" in d for d in design)
+    if failed:
+        lines += ["", f"{failed} of {len(project.strips)} strip(s) cannot be designed as given."]
+    else:
+        lines += ["", f"OK: {len(project.strips)} strip(s) checked."]
+    lines.append(CAUTION)
     return "\n".join(lines) + "\n"

@@ -24,16 +24,17 @@ through the ``DesignCode`` and the anchorage table.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
 from detailer.codes.base import ConcreteSteel, DesignCode
 from detailer.demand import DemandCurve, intervals_above
+from detailer import simplified
 from detailer.design import B_MM, ZoneSpec, as_per_m
 from detailer.errors import DesignError
 from detailer.layout import BarRole, BarSet, Face, ZoneDesign
-from detailer.model import EndKind, Project, Strip
+from detailer.model import Project, Strip
 from detailer.schedule import bar_count, principal_bar_count
 from detailer.shapes import detailing as shape_helpers
 from detailer.shapes.bs8666 import ScheduledShape, make_shape
@@ -158,8 +159,13 @@ def principal_runs(
     mat: ConcreteSteel,
     anch: Anchorages,
     as_min_mm2_per_m: float,
+    simplified_rules: bool = False,
 ) -> tuple[Run, ...]:
-    """The group-a (and, where staged, group-b) runs of one zone."""
+    """The group-a (and, where staged, group-b) runs of one zone.
+
+    With ``simplified_rules`` the extents of span bottoms and internal-support tops come from
+    the fixed fractions of ``detailer.simplified`` instead of the shifted envelope.
+    """
     phi, s = zone.phi_mm, zone.spacing_mm
     face = zone.face
     l_bd = anch.lbd(phi, face)
@@ -217,9 +223,18 @@ def principal_runs(
                     a0 = min(a0, sup.x_mm - sup.width_mm / 2 - reach)
     a0, a1 = max(a0, geom.bar_left_mm), min(a1, geom.bar_right_mm)
 
-    # --- group b: where group a alone does not suffice (and the area of maximum moment)
     s_general = code.max_spacing(strip.thickness_mm, principal=True, high_moment_zone=False)
     half_as = as_per_m(phi, 2 * s)
+    if simplified_rules and spec.kind in ("span", "support"):
+        simple = _simplified_runs(spec, zone, strip, geom, layer, a0, a1, left_leg, right_leg)
+        if simple is not None:
+            if len(simple) == 2 and 2 * s > s_general + 1e-9:
+                # alternate bars would be too far apart: all bars take the longer extent
+                a = simple[0]
+                return (replace(a, set_id=zone.zone_id, spacing_mm=s, note=""),)
+            return simple
+
+    # --- group b: where group a alone does not suffice (and the area of maximum moment)
     staged = (
         spec.kind in ("span", "support")
         and 2 * s <= s_general + 1e-9
@@ -250,6 +265,37 @@ def principal_runs(
             BarEnds(left_leg, right_leg), "alternate bars, full length"),
         Run(f"{zone.zone_id}-b", zone.zone_id, face, layer, phi, 2 * s, float(s), b0, b1,
             legs_b, "alternate bars, curtailed"),
+    )
+
+
+def _simplified_runs(spec, zone, strip, geom, layer, a0, a1, left_leg, right_leg):
+    """Runs by the fixed fractions of detailer.simplified (None: zone not covered by them)."""
+    phi, s = zone.phi_mm, zone.spacing_mm
+    face = zone.face
+    sups = strip.supports
+    if spec.kind == "span":
+        seg = strip.segments[spec.segment]
+        stop = simplified.bottom_stop_mm(seg.length_mm)
+        b0, b1 = seg.x_start_mm + stop, seg.x_end_mm - stop
+    else:
+        if any(_is_end_support(strip, i) for i in spec.supports) or not spec.supports:
+            return None
+        first, last = sups[spec.supports[0]], sups[spec.supports[-1]]
+        span_l = first.x_mm - sups[spec.supports[0] - 1].x_mm
+        span_r = sups[spec.supports[-1] + 1].x_mm - last.x_mm
+        full_l, half_l = simplified.top_reach_mm(span_l, phi)
+        full_r, half_r = simplified.top_reach_mm(span_r, phi)
+        face_l = first.x_mm - first.width_mm / 2
+        face_r = last.x_mm + last.width_mm / 2
+        a0, a1 = max(face_l - half_l, geom.bar_left_mm), min(face_r + half_r, geom.bar_right_mm)
+        b0, b1 = face_l - full_l, face_r + full_r
+        left_leg = right_leg = 0.0
+    note = f"simplified rules, {simplified.SIMPLIFIED_SOURCE}"
+    return (
+        Run(f"{zone.zone_id}-a", zone.zone_id, face, layer, phi, 2 * s, 0.0, a0, a1,
+            BarEnds(left_leg, right_leg), "alternate bars, full length; " + note),
+        Run(f"{zone.zone_id}-b", zone.zone_id, face, layer, phi, 2 * s, float(s), max(b0, a0),
+            min(b1, a1), BarEnds(), "alternate bars, curtailed; " + note),
     )
 
 
@@ -496,12 +542,6 @@ def distribution_set(
     return tuple(out)
 
 
-def end_support_anchorage_ok(
-    available_mm: float, required_mm: float
-) -> bool:  # pragma: no cover - trivial
-    return available_mm + 1e-6 >= required_mm
-
-
 __all__ = [
     "Anchorages",
     "BarEnds",
@@ -513,5 +553,4 @@ __all__ = [
     "run_to_barset",
     "split_for_stock",
     "u_bar_set",
-    "EndKind",
 ]

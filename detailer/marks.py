@@ -32,6 +32,8 @@ __all__ = [
     "format_mark",
     "layer_sort_key",
     "mark_number",
+    "mark_project",
+    "mark_sort_key",
     "mark_table",
     "withdrawn_marks",
 ]
@@ -41,7 +43,7 @@ from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from typing import Final
 
-from detailer.layout import BarSet
+from detailer.layout import BarSet, ProjectDetail
 
 #: Layer order used for numbering marks (bottom mat first, outer layer first).
 LAYER_ORDER: Final[tuple[str, ...]] = ("B1", "B2", "T1", "T2")
@@ -165,6 +167,18 @@ def assign_marks(
     )
 
 
+def mark_project(
+    detail: ProjectDetail,
+    previous: Mapping[BarIdentity, str] | None = None,
+    *,
+    withdrawn: Iterable[str] = (),
+) -> ProjectDetail:
+    """A new ``ProjectDetail`` whose bar sets carry their marks (see :func:`assign_marks`)."""
+    marked = assign_marks([s.bar_sets for s in detail.strips], previous, withdrawn=withdrawn)
+    strips = tuple(dataclasses.replace(s, bar_sets=sets) for s, sets in zip(detail.strips, marked))
+    return dataclasses.replace(detail, strips=strips)
+
+
 def mark_table(strips_bar_sets: Iterable[Iterable[BarSet]]) -> tuple[MarkEntry, ...]:
     """The marks in use, one entry per mark, in mark order (numeric first, then by text).
 
@@ -179,7 +193,7 @@ def mark_table(strips_bar_sets: Iterable[Iterable[BarSet]]) -> tuple[MarkEntry, 
             seen = by_mark.setdefault(b.mark, identity)
             if seen != identity:
                 raise ValueError(f"mark {b.mark} is given to two different bars")
-    return tuple(MarkEntry(m, by_mark[m]) for m in sorted(by_mark, key=_mark_sort_key))
+    return tuple(MarkEntry(m, by_mark[m]) for m in sorted(by_mark, key=mark_sort_key))
 
 
 def withdrawn_marks(
@@ -190,9 +204,10 @@ def withdrawn_marks(
     """Marks issued before (``previous`` or ``earlier_withdrawn``) and not in use now, sorted."""
     in_use = {entry.mark for entry in current}
     gone = (set(previous.values()) | set(earlier_withdrawn)) - in_use
-    return tuple(sorted(gone, key=_mark_sort_key))
+    return tuple(sorted(gone, key=mark_sort_key))
 
 
-def _mark_sort_key(mark: str) -> tuple[int, int, str]:
+def mark_sort_key(mark: str) -> tuple[int, int, str]:
+    """Sort key of a mark: numeric marks by number, then any other mark by its text."""
     number = mark_number(mark)
     return (0, number, "") if number is not None else (1, 0, mark)

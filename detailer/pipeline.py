@@ -46,7 +46,8 @@ from detailer.layout import (
     StripDetail,
     ZoneDesign,
 )
-from detailer.model import EndKind, Project, Strip
+from detailer import simplified
+from detailer.model import Curtailment, EndKind, Project, Strip
 from detailer.selfcheck import face_resistance, self_check
 from detailer.shapes.bs8666 import ShapeError
 from detailer.strip_analysis import StripAnalysis, analyse_strip
@@ -183,6 +184,9 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
         zones.append(zone_design(spec, choice, user_fixed=False))
         spec_by_zone[spec.zone_id] = spec
 
+    simple = project.reinforcement.curtailment is Curtailment.SIMPLIFIED
+    if simple:
+        simplified.qualifies(strip)
     anch = _anchorages(strip, project, code, mat)
     bar_type = m.bar_type
     shape_rules = _shape_rules(project)
@@ -193,7 +197,7 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
             curve = top if z.face is Face.TOP else bottom
             runs = principal_runs(
                 spec, z, strip=strip, geom=geom, curve=curve, code=code, mat=mat, anch=anch,
-                as_min_mm2_per_m=z.as_min_mm2_per_m,
+                as_min_mm2_per_m=z.as_min_mm2_per_m, simplified_rules=simple,
             )
             pieces: list[Run] = []
             for run in runs:
@@ -230,6 +234,12 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
         raise DesignError(
             f"strip {strip.id}: {c.name} fails ({c.clause}): {c.demand:.4g} against "
             f"{c.capacity:.4g} {c.unit}{'; ' + c.note if c.note else ''}"
+        )
+    if not sc.ok and simple:
+        raise DesignError(
+            f"strip {strip.id}: the simplified curtailment rules leave M_Rd below the shifted "
+            f"M_Ed on the {sc.face.value} face at x = {sc.x_at_mm:.0f} mm (utilisation "
+            f"{sc.utilisation_max:.2f}); use 'curtailment: envelope' for this slab"
         )
     if not sc.ok:
         raise DesignError(

@@ -324,6 +324,8 @@ class _Locator:
             message = f"must be {op} {_show(limit)} (got {_show(given)})"
         elif kind == "literal_error":
             message = f"must be one of {ctx.get('expected', '')} (got {_show(given)})"
+            if name == "combination" and not isinstance(given, float):
+                fix = 'write "6.10" or "6.10a/b"'  # the note on unquoted 6.10 does not apply
         elif kind == "string_type":
             message = f"expected text (got {_show(given)})"
             if isinstance(given, bool):

@@ -3,8 +3,9 @@
 :func:`build_record` gathers a detailed project (:class:`detailer.layout.ProjectDetail`) into
 frozen record objects; :func:`record_to_jsonable` turns them into plain dicts and lists ready
 for ``json.dumps`` (rounded by unit, NumPy scalars made Python floats, keys in field order).
-:func:`previous_marks` reads the mark table back from a stored record, so a later issue can
-keep the marks of unchanged bars. Every field is described in ``docs/record-schema.md``.
+The mark table it stores is read back by :func:`detailer.io.json_writer.previous_marks`, so a
+later issue can keep the marks of unchanged bars. Every field is described in
+``docs/record-schema.md``.
 
 Pure: no I/O, no design computation (values are copied from the pipeline's results), except
 the depth of an inner (T2/B2) layer, which is geometry: h - c_nom - phi_outer - phi / 2.
@@ -32,7 +33,6 @@ __all__ = [
     "bar_set_record",
     "build_record",
     "mark_records",
-    "previous_marks",
     "record_to_jsonable",
 ]
 
@@ -58,7 +58,7 @@ from detailer.layout import (
     StripDetail,
     ZoneDesign,
 )
-from detailer.marks import BarIdentity, layer_sort_key, mark_table
+from detailer.marks import layer_sort_key, mark_table
 from detailer.schedule import schedule_rows, summarise
 
 #: Version of the record's layout; raised when a field changes meaning or is removed.
@@ -367,7 +367,9 @@ def _actions(detail: StripDetail) -> ActionsRecord:
         labels = ()  # every subset of loaded segments: too many to list
     return ActionsRecord(
         combination=an.combination.value,
-        equations=tuple(EquationRecord(e.name, e.gamma_g, e.gamma_q) for e in eqs),
+        equations=tuple(
+            EquationRecord(name=e.name, gamma_g=e.gamma_g, gamma_q=e.gamma_q) for e in eqs
+        ),
         gamma_g_sup=f.gamma_g_sup,
         gamma_g_inf=f.gamma_g_inf,
         gamma_q=f.gamma_q,
@@ -440,7 +442,9 @@ def _strip(detail: StripDetail) -> StripRecord:
         section=_section(detail),
         left_end=EndRecord(kind=s.left_end.kind.value, cantilever_mm=s.left_end.cantilever_mm),
         right_end=EndRecord(kind=s.right_end.kind.value, cantilever_mm=s.right_end.cantilever_mm),
-        supports=tuple(SupportRecord(x.label, x.x_mm, x.width_mm) for x in s.supports),
+        supports=tuple(
+            SupportRecord(label=x.label, x_mm=x.x_mm, width_mm=x.width_mm) for x in s.supports
+        ),
         spans_mm=tuple(s.spans_mm),
         length_mm=s.length_mm,
         load_category=s.load_category,
@@ -544,9 +548,7 @@ def _number(value: float, dp: int) -> float | int | None:
     x = float(value)
     if not math.isfinite(x):
         return None
-    r = round(x, dp)
-    if r == 0:
-        return 0  # no "-0.0"
+    r = round(x, dp) + 0.0  # + 0.0 turns -0.0 into 0.0
     if dp <= 1 and r == int(r):
         return int(r)  # whole mm written as integers
     return r
@@ -585,38 +587,3 @@ def record_to_jsonable(record: ProjectRecord) -> dict[str, Any]:
     0.0001); infinite values become null.
     """
     return _convert(record, "")
-
-
-# --------------------------------------------------------------------------------------------
-# Reading the mark table back (for a later issue)
-
-
-def previous_marks(data: Mapping[str, Any]) -> tuple[dict[BarIdentity, str], tuple[str, ...]]:
-    """(identity -> mark, withdrawn marks) from a record loaded with ``json.load``.
-
-    Raises ``ValueError`` (one line) if the record is not a slabwright record this version
-    can read.
-    """
-    version = data.get("schema_version") if isinstance(data, Mapping) else None
-    if version != SCHEMA_VERSION:
-        raise ValueError(
-            f"record schema_version {version!r} is not {SCHEMA_VERSION}; "
-            "rebuild the earlier issue with this version or start the marks afresh"
-        )
-    table: dict[BarIdentity, str] = {}
-    try:
-        for m in data["marks"]:
-            identity = BarIdentity(
-                bar_type=str(m["bar_type"]),
-                phi_mm=int(m["phi_mm"]),
-                shape_code=str(m["shape_code"]),
-                dims_mm=tuple((str(k), int(v)) for k, v in m["dims_mm"].items()),
-                free_dims=tuple(str(x) for x in m["free_dims"]),
-                sketch_ref=str(m["sketch_ref"]),
-                length_mm=int(m["length_mm"]),
-            )
-            table[identity] = str(m["mark"])
-        withdrawn = tuple(str(x) for x in data["withdrawn_marks"])
-    except (KeyError, TypeError, ValueError, AttributeError) as exc:
-        raise ValueError(f"record mark table is damaged ({exc!r}); rebuild the earlier issue") from None
-    return table, withdrawn

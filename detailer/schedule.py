@@ -33,7 +33,7 @@ from typing import TYPE_CHECKING
 
 from detailer.bars import mass_kg_per_m
 from detailer.layout import BarSet
-from detailer.marks import BarIdentity, bar_identity, mark_number
+from detailer.marks import BarIdentity, bar_identity, mark_sort_key
 
 if TYPE_CHECKING:
     from detailer.layout import ProjectDetail
@@ -120,31 +120,7 @@ class ScheduleRow:
 
     def same_bars(self, other: ScheduleRow) -> bool:
         """True when ``other`` schedules the same bars (all but the revision letter)."""
-        return (
-            self.member,
-            self.mark,
-            self.bar_type,
-            self.phi_mm,
-            self.n_members,
-            self.n_bars_each,
-            self.length_mm,
-            self.shape_code,
-            self.dims_mm,
-            self.free_dims,
-            self.sketch_ref,
-        ) == (
-            other.member,
-            other.mark,
-            other.bar_type,
-            other.phi_mm,
-            other.n_members,
-            other.n_bars_each,
-            other.length_mm,
-            other.shape_code,
-            other.dims_mm,
-            other.free_dims,
-            other.sketch_ref,
-        )
+        return replace(self, revision="", mass_kg=0.0) == replace(other, revision="", mass_kg=0.0)
 
 
 @dataclass(frozen=True, slots=True)
@@ -214,7 +190,7 @@ def schedule_rows(
 
     earlier = {(r.member, r.mark): r for r in previous}
     rows: list[ScheduleRow] = []
-    for key in sorted(counts, key=lambda k: (member_order[k[0]], _mark_key(k[1]))):
+    for key in sorted(counts, key=lambda k: (member_order[k[0]], mark_sort_key(k[1]))):
         member, mark = key
         identity = identities[key]
         n_members = (members or {}).get(member, 1)
@@ -240,11 +216,6 @@ def schedule_rows(
             row = replace(row, revision=old.revision)
         rows.append(row)
     return tuple(rows)
-
-
-def _mark_key(mark: str) -> tuple[int, int, str]:
-    number = mark_number(mark)
-    return (0, number, "") if number is not None else (1, 0, mark)
 
 
 def summarise(rows: Iterable[ScheduleRow]) -> tuple[SummaryLine, ...]:

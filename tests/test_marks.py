@@ -142,15 +142,25 @@ def test_returns_new_bar_sets_in_the_input_structure() -> None:
 
 def test_previous_marks_are_kept_and_new_bars_never_reuse_a_withdrawn_mark() -> None:
     first = assign_marks(
-        [(bar("S1", "a", "B1", 0.0), bar("S1", "b", "B1", 3000.0, length=3000),
-          bar("S1", "c", "T1", 2800.0, phi=16, length=2400))]  # fmt: skip
+        [
+            (
+                bar("S1", "a", "B1", 0.0),
+                bar("S1", "b", "B1", 3000.0, length=3000),
+                bar("S1", "c", "T1", 2800.0, phi=16, length=2400),
+            )
+        ]
     )
     previous = {e.identity: e.mark for e in mark_table(first)}
     # Next issue: "b" is withdrawn (its bar changed length), "c" unchanged, one new bar.
     second = assign_marks(
-        [(bar("S1", "a", "B1", 0.0), bar("S1", "b", "B1", 3000.0, length=3100),
-          bar("S1", "c", "T1", 2800.0, phi=16, length=2400),
-          bar("S1", "d", "T2", 0.0, phi=10, length=5000))],  # fmt: skip
+        [
+            (
+                bar("S1", "a", "B1", 0.0),
+                bar("S1", "b", "B1", 3000.0, length=3100),
+                bar("S1", "c", "T1", 2800.0, phi=16, length=2400),
+                bar("S1", "d", "T2", 0.0, phi=10, length=5000),
+            )
+        ],
         previous,
     )
     marked = marks_by_set(second)
@@ -196,11 +206,14 @@ def _strips(draw: st.DrawFn) -> list[list[BarSet]]:
     n_strips = draw(st.integers(1, 3))
     out = []
     for k in range(n_strips):
-        picks = draw(st.lists(st.sampled_from(range(len(_POOL))), min_size=1, max_size=8,
-                              unique=True))  # fmt: skip
+        picks = draw(
+            st.lists(st.sampled_from(range(len(_POOL))), min_size=1, max_size=8, unique=True)
+        )
         out.append(
-            [bar(f"S{k + 1}", f"set{p:02d}", *_POOL[p][:2], phi=_POOL[p][2], length=_POOL[p][3])
-             for p in picks]  # fmt: skip
+            [
+                bar(f"S{k + 1}", f"set{p:02d}", *_POOL[p][:2], phi=_POOL[p][2], length=_POOL[p][3])
+                for p in picks
+            ]
         )
     return out
 

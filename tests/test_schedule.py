@@ -30,8 +30,16 @@ from detailer.shapes.bs8666 import make_shape
 BS4449_KG_PER_M = {10: 0.616, 12: 0.888, 16: 1.579, 20: 2.466}
 
 
-def bar(strip: str, set_id: str, layer: str, x: float, phi: int, length: int, count: int,
-        code: str = "00") -> BarSet:  # fmt: skip
+def bar(
+    strip: str,
+    set_id: str,
+    layer: str,
+    x: float,
+    phi: int,
+    length: int,
+    count: int,
+    code: str = "00",
+) -> BarSet:
     dims = {"A": length} if code == "00" else {"A": length, "B": 300}
     return BarSet(
         strip_id=strip,
@@ -80,8 +88,9 @@ def test_distribution_count_along_the_bar_run() -> None:
     assert distribution_bar_count(150.0, 4350.0, 300) == 15
 
 
-@pytest.mark.parametrize(("extent", "spacing"), [(1000.0, 0.0), (1000.0, -200.0),
-                                                 (-5.0, 200.0), (math.nan, 200.0)])  # fmt: skip
+@pytest.mark.parametrize(
+    ("extent", "spacing"), [(1000.0, 0.0), (1000.0, -200.0), (-5.0, 200.0), (math.nan, 200.0)]
+)
 def test_bar_count_rejects_nonsense(extent: float, spacing: float) -> None:
     with pytest.raises(ValueError):
         bar_count(extent, spacing)

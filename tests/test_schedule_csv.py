@@ -59,8 +59,9 @@ PROJECT = Project(
 )
 
 
-def _bar(strip: str, set_id: str, layer: str, phi: int, dims: dict[str, int], count: int,
-         code: str) -> BarSet:  # fmt: skip
+def _bar(
+    strip: str, set_id: str, layer: str, phi: int, dims: dict[str, int], count: int, code: str
+) -> BarSet:
     return BarSet(
         strip_id=strip,
         set_id=set_id,
@@ -124,12 +125,18 @@ def test_rows_read_back_with_the_csv_module() -> None:
     # (BS 8666:2005 shapes table, r = 32 mm for 16 mm bars from Table 2; rounded up to 5 mm).
     assert l_bar["Shape code"] == "11"
     assert (l_bar["A"], l_bar["B"], l_bar["C"], l_bar["D"], l_bar["E/r"]) == (
-        "1400", "160", "", "", "",
-    )  # fmt: skip
+        "1400",
+        "160",
+        "",
+        "",
+        "",
+    )
     assert l_bar["Length of each bar (mm)"] == "1530"
     assert (l_bar["No. of mbrs"], l_bar["No. of bars in each"], l_bar["Total no."]) == (
-        "1", "31", "31",
-    )  # fmt: skip
+        "1",
+        "31",
+        "31",
+    )
     assert all(r["Rev"] == "P2" for r in body)
 
 
@@ -167,8 +174,14 @@ def test_rerun_is_byte_identical_with_unix_line_ends_and_utf8() -> None:
 def test_code_99_sketch_and_free_dimension_in_parentheses() -> None:
     # BS 8666:2005 general notes: a code 99 is drawn as a dimensioned sketch with the free
     # dimension in parentheses.
-    shape = make_shape("99", 12, {"A": 400, "B": 1200, "C": 400}, free_dim="C",
-                       sketch_ref="SK-07", length_mm=1952.0)  # fmt: skip
+    shape = make_shape(
+        "99",
+        12,
+        {"A": 400, "B": 1200, "C": 400},
+        free_dim="C",
+        sketch_ref="SK-07",
+        length_mm=1952.0,
+    )
     b = BarSet("S1", "x", BarRole.PRINCIPAL, "T1", "z", "H", 12, 200, 0.0, 10, 0.0, 1200.0, shape)
     (marked,) = assign_marks([(b,)])
     lines = _read(render_schedule_csv(build_schedule(marked, revision="P2"), PROJECT))

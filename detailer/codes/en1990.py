@@ -63,7 +63,7 @@ _ANNEXES = ("UK", "recommended")
 def psi_factors(category: str, national_annex: str = "UK") -> PsiFactors:
     """psi_0, psi_1, psi_2 for an imposed-load category A to H of EN 1991-1-1.
 
-    EN 1990:2002, Table A1.1.
+    EN 1990:2002, Table A1.1 + UK NA.
 
     ``national_annex`` is ``"UK"`` (UK NA Table NA.A1.1) or ``"recommended"`` (the values
     of the table itself). Raises ``KeyError`` for an unknown category or annex.
@@ -90,7 +90,7 @@ def category_description(category: str) -> str:
 def partial_factors(national_annex: str = "UK") -> PartialFactors:
     """Partial factors for persistent and transient design situations, STR/GEO (set B).
 
-    EN 1990:2002, Table A1.2(B).
+    EN 1990:2002, Table A1.2(B) + UK NA.
 
     gamma_G,sup = 1.35, gamma_G,inf = 1.0 and gamma_Q = 1.5 in both; xi for Eq. (6.10b) is
     0.925 in the UK NA (Table NA.A1.2(B)) against the recommended 0.85 (from memory).

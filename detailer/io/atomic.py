@@ -81,6 +81,7 @@ class _Staged:
     """Book-keeping for one target while the set is being written."""
 
     target: Path
+    data: bytes
     tmp: Path | None = None
     backup: Path | None = None  # hard link (or copy) of the previous version, if any
     existed: bool = False
@@ -111,7 +112,7 @@ def write_outputs(files: Mapping[Path, bytes]) -> None:
                 raise IsADirectoryError(errno.EISDIR, os.strerror(errno.EISDIR), str(st.target))
             st.existed = st.target.exists()
             file_mode = st.target.stat().st_mode & 0o777 if st.existed else mode
-            st.tmp = _write_temp(st.target, files[st.target], file_mode)
+            st.tmp = _write_temp(st.target, st.data, file_mode)
         for st in staged:
             current = st.target
             if st.existed:
@@ -147,7 +148,7 @@ def _stage_targets(files: Mapping[Path, bytes]) -> list[_Staged]:
         seen[resolved] = Path(p)
         if not isinstance(files[p], (bytes, bytearray, memoryview)):
             raise TypeError(f"output for {p} must be bytes, not {type(files[p]).__name__}")
-    return [_Staged(target=Path(p)) for p in sorted(files, key=lambda q: str(q))]
+    return [_Staged(Path(p), bytes(files[p])) for p in sorted(files, key=lambda q: str(q))]
 
 
 def _default_mode() -> int:
@@ -164,10 +165,14 @@ def _make_parents(folder: Path) -> list[Path]:
     while not p.exists() and p != p.parent:
         missing.append(p)
         p = p.parent
-    missing.reverse()
-    for m in missing:
-        m.mkdir()
-    return missing
+    created = []
+    for m in reversed(missing):
+        try:
+            m.mkdir()
+        except FileExistsError:  # made meanwhile by someone else: not ours to remove
+            continue
+        created.append(m)
+    return created
 
 
 def _write_temp(target: Path, data: bytes, mode: int) -> Path:

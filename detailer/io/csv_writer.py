@@ -114,8 +114,11 @@ def schedule_csv_lines(schedule: Schedule, project: Project) -> list[list[str]]:
         ["Title", project.title],
     ]
     for strip in project.strips:
-        out.append(["Member ref", strip.id, strip.description] if strip.description else
-                   ["Member ref", strip.id])  # fmt: skip
+        out.append(
+            ["Member ref", strip.id, strip.description]
+            if strip.description
+            else ["Member ref", strip.id]
+        )
     out += [
         ["Drawing", project.drawing_ref],
         ["Revision", project.revision],

@@ -1,5 +1,8 @@
 """The build record ``<project-id>-record.json``: byte-stable JSON of :mod:`detailer.record`.
 
+Also reads an earlier issue's mark table back (:func:`read_previous_marks`), so unchanged
+bars keep their marks.
+
 Keys in the record's field order (not sorted: the order reads top-down like the calculation),
 two-space indent, ``ensure_ascii=False`` (UTF-8), no NaN or infinity (they are null), one
 newline at the end. The same project file therefore always gives the same bytes.
@@ -9,6 +12,7 @@ from __future__ import annotations
 
 __all__ = [
     "RecordReadError",
+    "previous_marks",
     "read_previous_marks",
     "record_file_name",
     "render_record_json",
@@ -16,12 +20,14 @@ __all__ = [
 ]
 
 import json
+from collections.abc import Mapping
 from pathlib import Path
+from typing import Any
 
 from detailer.errors import InputError
 from detailer.io.atomic import write_output
 from detailer.marks import BarIdentity
-from detailer.record import ProjectRecord, previous_marks, record_to_jsonable
+from detailer.record import SCHEMA_VERSION, ProjectRecord, record_to_jsonable
 
 
 def record_file_name(project_id: str) -> str:
@@ -31,15 +37,46 @@ def record_file_name(project_id: str) -> str:
 
 def render_record_json(record: ProjectRecord) -> bytes:
     """The record as UTF-8 JSON bytes."""
-    text = json.dumps(
-        record_to_jsonable(record), indent=2, ensure_ascii=False, allow_nan=False
-    )
+    text = json.dumps(record_to_jsonable(record), indent=2, ensure_ascii=False, allow_nan=False)
     return (text + "\n").encode("utf-8")
 
 
 def write_record_json(path: Path, record: ProjectRecord) -> None:
     """Write the record atomically (an ``OutputError`` names the path and the fix)."""
     write_output(Path(path), render_record_json(record))
+
+
+def previous_marks(data: Mapping[str, Any]) -> tuple[dict[BarIdentity, str], tuple[str, ...]]:
+    """(identity -> mark, withdrawn marks) from a record loaded with ``json.load``.
+
+    Raises ``ValueError`` (one line) if the record is not a slabwright record this version
+    can read.
+    """
+    version = data.get("schema_version") if isinstance(data, Mapping) else None
+    if version != SCHEMA_VERSION:
+        raise ValueError(
+            f"record schema_version {version!r} is not {SCHEMA_VERSION}; "
+            "rebuild the earlier issue with this version or start the marks afresh"
+        )
+    table: dict[BarIdentity, str] = {}
+    try:
+        for m in data["marks"]:
+            identity = BarIdentity(
+                bar_type=str(m["bar_type"]),
+                phi_mm=int(m["phi_mm"]),
+                shape_code=str(m["shape_code"]),
+                dims_mm=tuple((str(k), int(v)) for k, v in m["dims_mm"].items()),
+                free_dims=tuple(str(x) for x in m["free_dims"]),
+                sketch_ref=str(m["sketch_ref"]),
+                length_mm=int(m["length_mm"]),
+            )
+            table[identity] = str(m["mark"])
+        withdrawn = tuple(str(x) for x in data["withdrawn_marks"])
+    except (KeyError, TypeError, ValueError, AttributeError) as exc:
+        raise ValueError(
+            f"record mark table is damaged ({exc!r}); rebuild the earlier issue"
+        ) from None
+    return table, withdrawn
 
 
 class RecordReadError(InputError):
@@ -54,8 +91,9 @@ def read_previous_marks(path: Path) -> tuple[dict[BarIdentity, str], tuple[str, 
     except OSError as exc:
         raise RecordReadError(f"{path}: cannot read the earlier record ({exc.strerror})") from None
     except (UnicodeDecodeError, json.JSONDecodeError) as exc:
-        raise RecordReadError(f"{path}: not a JSON record ({exc}); give the earlier issue's "
-                              "-record.json file") from None  # fmt: skip
+        raise RecordReadError(
+            f"{path}: not a JSON record ({exc}); give the earlier issue's -record.json file"
+        ) from None
     try:
         return previous_marks(data)
     except ValueError as exc:

@@ -19,10 +19,10 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
 
-from analysis.arrangements import ActionFactors, Combination, PatternRule  # noqa: E402
-from analysis.beam import BeamModel, Restraint, UniformLoad  # noqa: E402
-from analysis.envelope import analyse_envelope  # noqa: E402
-from analysis.stiffness import solve  # noqa: E402
+from analysis.arrangements import ActionFactors, Combination, PatternRule
+from analysis.beam import BeamModel, Restraint, UniformLoad
+from analysis.envelope import analyse_envelope
+from analysis.stiffness import solve
 
 SPAN_MM = 5000.0
 G_KN_M = 6.0
@@ -102,12 +102,18 @@ def main() -> None:
     print(f"\n{n} spans, {n + 1} load cases (median of repeats)")
     print(f"{'engine':<44} {'ms':>9} {'anastruct / this':>17}")
     print(f"{'anastruct 1.x, 51 separate solves':<44} {med_ana * 1e3:>9.1f} {'':>17}")
-    print(f"{'this package: solve() all stations':<44} {med_solve * 1e3:>9.2f} "
-          f"{med_ana / med_solve:>16.0f}x")
-    print(f"{'this package: analyse_envelope() incl. envelope':<44} {med_env * 1e3:>9.2f} "
-          f"{med_ana / med_env:>16.0f}x")
-    print(f"(best times: anastruct {best_ana * 1e3:.1f} ms, solve {best_solve * 1e3:.2f} ms, "
-          f"envelope {best_env * 1e3:.2f} ms)")
+    print(
+        f"{'this package: solve() all stations':<44} {med_solve * 1e3:>9.2f} "
+        f"{med_ana / med_solve:>16.0f}x"
+    )
+    print(
+        f"{'this package: analyse_envelope() incl. envelope':<44} {med_env * 1e3:>9.2f} "
+        f"{med_ana / med_env:>16.0f}x"
+    )
+    print(
+        f"(best times: anastruct {best_ana * 1e3:.1f} ms, solve {best_solve * 1e3:.2f} ms, "
+        f"envelope {best_env * 1e3:.2f} ms)"
+    )
 
 
 if __name__ == "__main__":
