@@ -117,7 +117,7 @@ def load_table(
                         _where(names, k, i),
                         f"a_mm = {a!r} must lie on the segment (0..{length} mm)",
                     )
-                a = min(max(a, 0.0), length)
+                a = 0.0 if a <= tol else (length if a >= length - tol else a)
                 lo = hi = a
                 is_point.append(True)
                 inten.append(float(load.p_kn))
@@ -137,7 +137,8 @@ def load_table(
                     raise _fail(
                         _where(names, k, i), f"line load needs start_mm < end_mm (got {lo}..{hi})"
                     )
-                lo, hi = max(lo, 0.0), min(hi, length)
+                lo = 0.0 if lo <= tol else lo  # snap to the nodes within the tolerance
+                hi = length if hi >= length - tol else hi
                 is_point.append(False)
                 inten.append(float(load.w_kn_per_m))
             case.append(k)
@@ -259,6 +260,7 @@ def free_terms(model: BeamModel, stations: Stations, table: LoadTable) -> FreeTe
     tie = np.abs(x - c) * 1000.0 <= POSITION_TOL_MM
     left_of = (x > c) & ~tie | tie & (stations.side[st] == 1)
     m0 = np.where(pt, r_a * x - q * xc, r_a * x - 0.5 * q * (xc**2 - xd**2))
+    m0[x >= length] = 0.0  # zero at the right node by statics; drop the round-off
     v0 = np.where(pt, r_a - q * left_of, r_a - q * (np.clip(x, c, d) - c))
     j0 = np.where(
         pt, r_a * x**3 / 6.0 - q * xc**3 / 6.0, r_a * x**3 / 6.0 - q * (xc**4 - xd**4) / 24.0

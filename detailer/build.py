@@ -65,7 +65,7 @@ def detail_with_marks(project: Project, code: DesignCode | None = None) -> Proje
 def build_outputs(project: Project, code: DesignCode | None = None) -> BuildResult:
     """The output files of a project, by file name (pure)."""
     detail = detail_with_marks(project, code)
-    schedule = schedule_for_project(detail)
+    schedule = schedule_for_project(detail, members={s.id: s.members for s in project.strips})
     record = build_record(detail)
     pid = project.id
     files = (

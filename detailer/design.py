@@ -297,7 +297,7 @@ def choose_bars(
             if not ok:
                 failed = "; ".join(c.name for c in checks if not c.ok)
                 raise DesignError(
-                    f"strip {strip.id}: zone {spec.zone_id}: the fixed bars H{phi}@{s} fail {failed}; "
+                    f"strip {strip.id}: zone {spec.zone_id}: the fixed bars {project.materials.bar_type}{phi}@{s} fail {failed}; "
                     "choose larger bars or a closer spacing in the project file"
                 )
             return choice

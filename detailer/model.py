@@ -15,6 +15,7 @@ __all__ = [
     "Combination",
     "Curtailment",
     "EndKind",
+    "FixedBars",
     "LineLoad",
     "Materials",
     "PartialLoad",
@@ -169,6 +170,15 @@ class Segment:
         return self.kind is not SegmentKind.SPAN
 
 
+@dataclass(frozen=True, slots=True)
+class FixedBars:
+    """Bars fixed by the engineer for one zone instead of being chosen by the design."""
+
+    zone_id: str  # as printed by ``slabwright check``, e.g. "S2-B" or "C-T"
+    phi_mm: int
+    spacing_mm: int
+
+
 @dataclass(frozen=True, slots=True, kw_only=True)
 class Strip:
     """A 1 m wide one-way slab strip over its supports."""
@@ -187,6 +197,8 @@ class Strip:
     psi: PsiFactors  # psi factors of that category, EN 1990 Table A1.1
     concrete_density_kn_per_m3: float = 25.0  # EN 1991-1-1 Table A.1
     description: str = ""
+    members: int = 1  # identical members this strip stands for (schedule "No. of mbrs")
+    fixed_bars: tuple[FixedBars, ...] = ()
 
     def __post_init__(self) -> None:
         # Programming errors only: the project reader reports user mistakes before this.

@@ -108,15 +108,17 @@ def _fixed_end_moment(strip: Strip, sa: StripAnalysis, support_index: int) -> fl
     return best
 
 
-def _anchorages(strip: Strip, project: Project, code: DesignCode, mat: ConcreteSteel) -> Anchorages:
-    """l_bd (full design stress, straight bar) and l_0 per allowed size and face."""
+def _anchorages(
+    strip: Strip, project: Project, code: DesignCode, mat: ConcreteSteel, extra: tuple[int, ...] = ()
+) -> Anchorages:
+    """l_bd (full design stress, straight bar) and l_0 per allowed (or fixed) size and face."""
     l_bd, l_0 = {}, {}
     for face, layer, cover in (
         (Face.TOP, Layer.TOP, strip.cover_top_mm),
         (Face.BOTTOM, Layer.BOTTOM, strip.cover_bottom_mm),
     ):
         bond = code.bond_condition(strip.thickness_mm, layer)
-        for phi in project.reinforcement.diameters_mm:
+        for phi in sorted(set(project.reinforcement.diameters_mm) | set(extra)):
             case = AnchorageCase(phi=phi, sigma_sd=mat.f_yd, bond=bond, c_d=cover)
             l_bd[(phi, face)] = code.anchorage(case, mat).l_bd
             l_0[(phi, face)] = code.lap(case, mat, PERCENT_LAPPED).l_0
@@ -171,23 +173,35 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
         top_extent_over_span=rules_d.top_extent_over_adjacent_span,
     )
     delta = project.analysis.redistribution_delta
+    fixed = {f.zone_id: (f.phi_mm, f.spacing_mm) for f in strip.fixed_bars}
+    unknown = sorted(set(fixed) - {s.zone_id for s in specs})
+    if unknown:
+        raise DesignError(
+            f"strip {strip.id}: fixed_bars names zone {unknown[0]!r}, which this strip does not "
+            f"have; its zones are {', '.join(s.zone_id for s in specs)}"
+        )
     strip_checks: list[Check] = []
     zones: list[ZoneDesign] = []
     spec_by_zone: dict[str, ZoneSpec] = {}
     for spec in specs:
-        choice = choose_bars(spec, strip=strip, project=project, code=code, mat=mat, delta=delta)
+        user = fixed.get(spec.zone_id)
+        choice = choose_bars(
+            spec, strip=strip, project=project, code=code, mat=mat, delta=delta, fixed=user
+        )
         # Deflection, 7.4.2: span bottom zones and cantilever tops.
         seg = _deflection_segment(strip, spec)
         if seg is not None:
-            choice, chk = _deflection(spec, choice, seg, strip, project, code, mat, delta)
+            choice, chk = _deflection(
+                spec, choice, seg, strip, project, code, mat, delta, can_add=user is None
+            )
             strip_checks.append(chk)
-        zones.append(zone_design(spec, choice, user_fixed=False))
+        zones.append(zone_design(spec, choice, user_fixed=user is not None))
         spec_by_zone[spec.zone_id] = spec
 
     simple = project.reinforcement.curtailment is Curtailment.SIMPLIFIED
     if simple:
         simplified.qualifies(strip)
-    anch = _anchorages(strip, project, code, mat)
+    anch = _anchorages(strip, project, code, mat, tuple(p for p, _ in fixed.values()))
     bar_type = m.bar_type
     shape_rules = _shape_rules(project)
     bar_sets: list[BarSet] = []
@@ -302,7 +316,7 @@ def _deflection_segment(strip: Strip, spec: ZoneSpec):
     return None
 
 
-def _deflection(spec, choice, seg, strip, project, code, mat, delta):
+def _deflection(spec, choice, seg, strip, project, code, mat, delta, can_add=True):
     """Span/effective depth, 7.4.2; where it fails, more steel (F_steel up to 1.5) is tried."""
     span_type = _span_type(strip, seg)
     l_eff = seg.length_mm
@@ -319,7 +333,7 @@ def _deflection(spec, choice, seg, strip, project, code, mat, delta):
         # The steel-stress factor grows with A_s,prov/A_s,req (UK NA cap 1.5): ask for more steel.
         base = res.l_d_limit / max(res.F_steel, 1e-9)
         need_factor = actual / base
-        if need_factor <= 1.5 + 1e-9:
+        if can_add and need_factor <= 1.5 + 1e-9:
             extra = need_factor * as_req
             choice = choose_bars(
                 spec, strip=strip, project=project, code=code, mat=mat, delta=delta,

@@ -20,6 +20,7 @@ from detailer.model import (
     Combination,
     Curtailment,
     EndKind,
+    FixedBars,
     LineLoad,
     Materials,
     PartialLoad,
@@ -396,6 +397,8 @@ def _strip(
         load_category=s.loads.category,
         psi=psi_factors(s.loads.category, "UK"),
         concrete_density_kn_per_m3=materials.density_kn_per_m3,
+        members=int(s.members),
+        fixed_bars=tuple(FixedBars(f.zone, int(f.diameter_mm), int(f.spacing_mm)) for f in s.fixed_bars),
     )
 
 

@@ -167,6 +167,14 @@ class LoadsIn(_In):
     line: list[LineIn] = []
 
 
+class FixedBarsIn(_In):
+    """Bars the engineer fixes for one zone (zone ids as printed by ``slabwright check``)."""
+
+    zone: Annotated[str, Field(min_length=1, max_length=40)]
+    diameter_mm: Annotated[int, Field(ge=6, le=50)]
+    spacing_mm: Annotated[int, Field(ge=50, le=450)]
+
+
 class StripIn(_In):
     id: Id
     description: Text = ""
@@ -180,6 +188,8 @@ class StripIn(_In):
     left_end: Annotated[EndIn, BeforeValidator(_end_form)]
     right_end: Annotated[EndIn, BeforeValidator(_end_form)]
     loads: LoadsIn
+    members: Annotated[int, Field(ge=1, le=1000)] = 1
+    fixed_bars: list[FixedBarsIn] = []
 
 
 class FileIn(_In):

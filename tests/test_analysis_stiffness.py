@@ -78,8 +78,9 @@ def _point_load_at_node(model: BeamModel, loads: list[Load], node: int) -> float
     for ld in loads:
         if isinstance(ld, PointLoad):
             length = model.segment_length_mm(ld.segment)
-            if (ld.segment == node and ld.a_mm <= 1e-9) or (
-                ld.segment == node - 1 and ld.a_mm >= length - 1e-9
+            # positions within 1e-6 mm of a node count as on the node (the engine's tolerance)
+            if (ld.segment == node and ld.a_mm <= 1e-6) or (
+                ld.segment == node - 1 and ld.a_mm >= length - 1e-6
             ):
                 p += ld.p_kn
     return p
