@@ -167,12 +167,11 @@ class Arrangement:
             segment_name(s, max(n, 1 + max(loaded)), self.left_cantilever, self.right_cantilever)
             for s in loaded
         ]
-        cant = [x for x in names if x.endswith("cantilever")]
         spans = [x[5:] for x in names if x.startswith("span ")]
-        parts = list(cant[:1])
+        parts = [x for x in names if x == "left cantilever"]  # left to right
         if spans:
             parts.append(("span " if len(spans) == 1 else "spans ") + ", ".join(spans))
-        parts += cant[1:]
+        parts += [x for x in names if x == "right cantilever"]
         return f"{self.equation}, Q on " + ", ".join(parts)
 
 

@@ -34,7 +34,7 @@ class NotPositiveDefiniteError(ValueError):
     """The banded matrix is not positive definite (a beam model that is a mechanism)."""
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class BandedCholesky:
     """Cholesky factor L of a banded SPD matrix, in lower band storage ``(p + 1, n)``."""
 

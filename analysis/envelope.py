@@ -49,7 +49,7 @@ _BLOCK_ENTRIES = 1_000_000
 _LABEL_RTOL = 1.0e-12
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class _Basis:
     """Unit-case solution and the rule that combines it (internal)."""
 
@@ -109,7 +109,7 @@ class SpanSummary:
     segment: int
     name: str  # "span 2", "left cantilever"
     length_mm: float
-    m_max_knm: float  # greatest sagging, located between stations where it peaks
+    m_max_knm: float  # greatest moment (sagging +), refined between stations at its peak
     x_mm: float  # where m_max occurs (global)
     governing: Arrangement  # for m_max
     m_min_knm: float  # least (most hogging) moment anywhere on the segment, ends included
@@ -135,7 +135,7 @@ class SupportSummary:
     m_right_face_knm: float | None
     reaction_for_m_min_kn: float  # F_Ed,sup of the arrangement governing m_min
     delta_m_knm: float  # F_Ed,sup t / 8, EN 1992-1-1 5.3.2.2(4) (0 at end supports)
-    m_min_reduced_knm: float | None  # centreline m_min + delta_m (interior supports only)
+    m_min_reduced_knm: float | None  # min(0, m_min + delta_m); interior supports only
     reaction_max_kn: float
     governing_reaction_max: Arrangement
     reaction_min_kn: float
@@ -148,7 +148,7 @@ def _frozen(a: np.ndarray) -> np.ndarray:
     return a
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class StripEnvelope:
     """Envelopes at the stations (arrays read-only) and per node; sagging moments positive."""
 
@@ -198,19 +198,29 @@ class StripEnvelope:
         eq, loaded = self._basis.governing(arr[:, node], kind.endswith("max"))
         return self._arr(eq, loaded)
 
+    def _equation(self, arrangement: Arrangement) -> Equation:
+        eq = next((e for e in self._basis.equations if e.name == arrangement.equation), None)
+        if eq is None:
+            names = [e.name for e in self._basis.equations]
+            raise ValueError(f"equation {arrangement.equation!r} is not one of {names}")
+        return eq
+
     def arrangement_values(
         self, arrangement: Arrangement, idx: slice | np.ndarray = slice(None)
     ) -> tuple[np.ndarray, np.ndarray]:
         """(M kNm, V kN) of one arrangement at stations ``idx`` (redistributed like the
         envelope)."""
-        eq = next((e for e in self._basis.equations if e.name == arrangement.equation), None)
-        if eq is None:
-            names = [e.name for e in self._basis.equations]
-            raise ValueError(f"equation {arrangement.equation!r} is not one of {names}")
+        eq = self._equation(arrangement)
         sol, loaded = self._basis.sol, arrangement.loaded_segments
         m = self._basis.combine(sol.moments_t(idx), eq, loaded)
         v = self._basis.combine(sol.shears_t(idx), eq, loaded)
         return m, v
+
+    def arrangement_reactions(self, arrangement: Arrangement) -> np.ndarray:
+        """(n_nodes,) reactions (kN, up +) of one arrangement (redistributed like the
+        envelope)."""
+        eq = self._equation(arrangement)
+        return self._basis.combine(self._basis.sol.reactions_kn.T, eq, arrangement.loaded_segments)
 
     def _peak(self, i: int, want_max: bool) -> tuple[float, float, Arrangement]:
         """Envelope extreme near station i, refined between stations for the governing
@@ -279,7 +289,7 @@ class StripEnvelope:
 
     def support_summaries(self) -> tuple[SupportSummary, ...]:
         """One summary per supported node (free ends are skipped)."""
-        model, sol = self.model, self._basis.sol
+        model = self.model
         n_nodes = len(model.node_x_mm)
         out = []
         for j, r in enumerate(model.restraints):
@@ -287,8 +297,7 @@ class StripEnvelope:
                 continue
             t_mm = float(model.support_width_mm[j])
             g_min = self.governing_at_node("m_min", j)
-            eq = next(e for e in self._basis.equations if e.name == g_min.equation)
-            f_sup = float(self._basis.combine(sol.reactions_kn[:, j], eq, g_min.loaded_segments))
+            f_sup = float(self.arrangement_reactions(g_min)[j])
             interior = 0 < j < n_nodes - 1
             m_c = float(self.node_m_min_knm[j])
             delta_m = max(f_sup, 0.0) * t_mm / 1000.0 / 8.0 if interior else 0.0

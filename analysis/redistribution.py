@@ -1,4 +1,4 @@
-"""Linear moment redistribution, EN 1992-1-1 5.5.
+"""Linear elastic analysis with limited redistribution, EN 1992-1-1:2004, 5.5.
 
 Every support moment of every load case is multiplied by delta; the moment in each segment
 changes by the straight line between the changes at its ends, so each case stays in
@@ -33,7 +33,10 @@ __all__ = [
 
 
 def check_delta(delta: float) -> float:
-    """Validate the redistribution ratio delta (EN 1992-1-1 5.5(4) symbol)."""
+    """Validate the redistribution ratio delta (only 0 < delta <= 1 here).
+
+    EN 1992-1-1:2004, 5.5(4).
+    """
     if isinstance(delta, bool) or not isinstance(delta, (int, float)):
         raise TypeError(f"redistribution ratio delta must be a number, got {delta!r}")
     if not (math.isfinite(delta) and 0.0 < delta <= 1.0):

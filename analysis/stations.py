@@ -31,7 +31,7 @@ def _frozen(a: np.ndarray) -> np.ndarray:
     return a
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class Stations:
     """Result stations, ordered by segment then position."""
 
@@ -59,7 +59,7 @@ class Stations:
         return int(sl.start + hits[0]) if hits.size else None
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class LoadTable:
     """All loads of all cases as flat arrays (validated). Lengths in m, forces in kN."""
 
@@ -221,7 +221,7 @@ def build_stations(model: BeamModel, table: LoadTable) -> Stations:
     )
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class FreeTerms:
     """Effect of each load on its own segment taken as a simple beam, at that segment's
     stations, as sparse entries (one per load and station; a case may repeat a station).

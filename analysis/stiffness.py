@@ -36,7 +36,7 @@ def _frozen(a: np.ndarray) -> np.ndarray:
     return a
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class CaseResults:
     """Results of every load case at every station (arrays are read-only).
 
@@ -82,7 +82,7 @@ class CaseResults:
         return int(self.m_knm.shape[0])
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class NodeSolution:
     """Node results of every case plus the free (simple-beam) terms: everything needed to
     evaluate any station of any case on demand without storing n_cases x n_st arrays.

@@ -104,13 +104,17 @@ class Anchorages:
     """Design anchorage (l_bd) and lap (l_0) lengths per bar size and face, mm."""
 
     l_bd: dict  # (phi, face) -> mm
-    l_0: dict  # (phi, face) -> mm
+    l_0: dict  # (phi, face) -> mm, laps staggered: at most 50 % lapped at a section
+    l_0_all: dict  # (phi, face) -> mm, every bar lapped at one section (distribution bars)
 
     def lbd(self, phi: int, face: Face) -> float:
         return self.l_bd[(phi, face)]
 
     def l0(self, phi: int, face: Face) -> float:
         return self.l_0[(phi, face)]
+
+    def l0_all(self, phi: int, face: Face) -> float:
+        return self.l_0_all[(phi, face)]
 
 
 def m_rd_knm_per_m(code: DesignCode, mat: ConcreteSteel, as_mm2_per_m: float, d_mm: float) -> float:
@@ -331,16 +335,28 @@ def _bottom_end(strip: Strip, geom: StripGeometry, i: int, phi: int, side: str) 
     return sup.x_mm - sup.width_mm / 2 + reach, 0.0
 
 
+def developed_mm(run: Run) -> float:
+    """Length of bar a run needs: the horizontal run plus its legs."""
+    return (run.x_end_mm - run.x_start_mm) + run.ends.left_leg_mm + run.ends.right_leg_mm
+
+
 def split_for_stock(
-    run: Run, *, stock_mm: float, lap_mm: float, curve: DemandCurve
+    run: Run,
+    *,
+    stock_mm: float,
+    lap_mm: float,
+    curve: DemandCurve,
+    avoid_mm: tuple[float, ...] = (),
+    min_gap_mm: float = 0.0,
 ) -> tuple[Run, ...]:
     """Split a run longer than the stock length into pieces lapped by ``lap_mm``.
 
-    Laps are placed where the (unshifted) demand on that face is least, searched within each
-    piece's reach; pieces of one run get consecutive suffixes 1, 2, ...
+    Each lap centre is put where the (unshifted) demand on that face is least within the reach
+    of the piece, and at least ``min_gap_mm`` from every centre in ``avoid_mm`` (the laps of the
+    alternate bars: centres 1.3 l_0 apart are not in the same lapped section, EN 1992-1-1:2004,
+    8.7.2(3) and 8.7.3(1)). Pieces of one run get consecutive suffixes 1, 2, ...
     """
-    developed = (run.x_end_mm - run.x_start_mm) + run.ends.left_leg_mm + run.ends.right_leg_mm
-    if developed <= stock_mm:
+    if developed_mm(run) <= stock_mm:
         return (run,)
     if lap_mm >= stock_mm / 2:
         raise DesignError(
@@ -350,32 +366,80 @@ def split_for_stock(
     pieces: list[Run] = []
     start = run.x_start_mm
     left_leg = run.ends.left_leg_mm
+    grid = curve.x_mm
+    avoid = np.asarray(avoid_mm, dtype=float)
     k = 1
     while True:
         reach = stock_mm - left_leg  # horizontal length this piece may have
-        if run.x_end_mm - start + run.ends.right_leg_mm <= stock_mm - left_leg + 1e-6:
+        if run.x_end_mm - start + run.ends.right_leg_mm <= reach + 1e-6:
             pieces.append(_piece(run, k, start, run.x_end_mm, left_leg, run.ends.right_leg_mm))
             break
-        # lap centre candidates: the piece ends at start + reach at most
-        hi = start + reach
-        lo = start + max(0.5 * reach, lap_mm + 1.0)
-        grid = curve.x_mm
+        hi = start + reach - lap_mm / 2
+        # aim at equal pieces, then look for low demand within a quarter piece of the aim
+        remaining = run.x_end_mm - start + left_leg + run.ends.right_leg_mm
+        n_left = max(math.ceil((remaining - lap_mm) / (stock_mm - lap_mm) - 1e-9), 2)
+        piece = (remaining + (n_left - 1) * lap_mm) / n_left
+        aim = start - left_leg + piece - lap_mm / 2
+        lo = max(start + 1.5 * lap_mm, aim - 0.25 * piece)
+        hi = min(hi, aim + 0.25 * piece)
         sel = (grid >= lo) & (grid <= hi)
+        if avoid.size:
+            sel &= np.min(np.abs(grid[:, None] - avoid[None, :]), axis=1) >= min_gap_mm
         if np.any(sel):
             cand = grid[sel]
             vals = curve.m_knm_per_m[sel]
-            # least demand; among equals the furthest (fewest pieces)
-            j = int(np.flatnonzero(vals <= vals.min() + 1e-6)[-1])
-            end = float(cand[j])
+            # least demand; among equals the one nearest the aim
+            best = np.flatnonzero(vals <= vals.min() + 1e-6)
+            centre = float(cand[best[int(np.argmin(np.abs(cand[best] - aim)))]])
         else:
-            end = hi
-        pieces.append(_piece(run, k, start, end, left_leg, 0.0))
-        start = end - lap_mm
+            centre = hi
+        pieces.append(_piece(run, k, start, centre + lap_mm / 2, left_leg, 0.0))
+        start = centre - lap_mm / 2
         left_leg = 0.0
         k += 1
         if k > 1000:
             raise DesignError(f"zone {run.zone_id}: cannot split the bar run for stock lengths")
     return tuple(pieces)
+
+
+def lap_centres_mm(pieces: tuple[Run, ...]) -> tuple[float, ...]:
+    """Centres of the laps between consecutive pieces of one run."""
+    return tuple(0.5 * (a.x_end_mm + b.x_start_mm) for a, b in zip(pieces, pieces[1:]))
+
+
+def split_zone_runs(
+    runs: tuple[Run, ...], *, stock_mm: float, lap_mm: float, curve: DemandCurve
+) -> tuple[Run, ...]:
+    """Split a zone's runs for stock lengths with staggered laps.
+
+    A single group that needs laps becomes two alternate groups so that only half of the bars
+    are lapped at any section; the second group's laps keep 1.3 l_0 clear of the first's.
+    """
+    if all(developed_mm(r) <= stock_mm for r in runs):
+        return runs
+    if len(runs) == 1:
+        r = runs[0]
+        note = "alternate bars, laps staggered"
+        runs = (
+            replace(r, set_id=f"{r.set_id}-a", spacing_mm=2 * r.spacing_mm, offset_mm=0.0, note=note),
+            replace(
+                r,
+                set_id=f"{r.set_id}-b",
+                spacing_mm=2 * r.spacing_mm,
+                offset_mm=float(r.spacing_mm),
+                note=note,
+            ),
+        )
+    out: list[Run] = []
+    centres: tuple[float, ...] = ()
+    for r in runs:
+        pieces = split_for_stock(
+            r, stock_mm=stock_mm, lap_mm=lap_mm, curve=curve, avoid_mm=centres,
+            min_gap_mm=1.3 * lap_mm,
+        )
+        centres = centres + lap_centres_mm(pieces)
+        out.extend(pieces)
+    return tuple(out)
 
 
 def _piece(run: Run, k: int, x0: float, x1: float, left_leg: float, right_leg: float) -> Run:
@@ -552,5 +616,6 @@ __all__ = [
     "principal_runs",
     "run_to_barset",
     "split_for_stock",
+    "split_zone_runs",
     "u_bar_set",
 ]

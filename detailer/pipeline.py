@@ -19,12 +19,11 @@ from detailer.codes.base import (
 )
 from detailer.curtailment import (
     Anchorages,
-    Run,
     StripGeometry,
     distribution_set,
     principal_runs,
     run_to_barset,
-    split_for_stock,
+    split_zone_runs,
     u_bar_set,
 )
 from detailer.demand import DemandCurve, build_curve, make_grid
@@ -52,8 +51,9 @@ from detailer.selfcheck import face_resistance, self_check
 from detailer.shapes.bs8666 import ShapeError
 from detailer.strip_analysis import StripAnalysis, analyse_strip
 
-#: Percentage of bars lapped at one section, 8.7.3(1): laps are not staggered here, so 100 %.
-PERCENT_LAPPED = 100.0
+#: Percentage of bars lapped at one section, 8.7.3(1): laps of alternate bars are staggered
+#: (centres 1.3 l_0 apart), so half the bars are lapped at any section.
+PERCENT_LAPPED = 50.0
 
 
 def default_code(project: Project) -> DesignCode:
@@ -112,7 +112,7 @@ def _anchorages(
     strip: Strip, project: Project, code: DesignCode, mat: ConcreteSteel, extra: tuple[int, ...] = ()
 ) -> Anchorages:
     """l_bd (full design stress, straight bar) and l_0 per allowed (or fixed) size and face."""
-    l_bd, l_0 = {}, {}
+    l_bd, l_0, l_0_all = {}, {}, {}
     for face, layer, cover in (
         (Face.TOP, Layer.TOP, strip.cover_top_mm),
         (Face.BOTTOM, Layer.BOTTOM, strip.cover_bottom_mm),
@@ -122,7 +122,8 @@ def _anchorages(
             case = AnchorageCase(phi=phi, sigma_sd=mat.f_yd, bond=bond, c_d=cover)
             l_bd[(phi, face)] = code.anchorage(case, mat).l_bd
             l_0[(phi, face)] = code.lap(case, mat, PERCENT_LAPPED).l_0
-    return Anchorages(l_bd, l_0)
+            l_0_all[(phi, face)] = code.lap(case, mat, 100.0).l_0
+    return Anchorages(l_bd, l_0, l_0_all)
 
 
 def _span_type(strip: Strip, seg) -> SpanType:
@@ -213,16 +214,12 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
                 spec, z, strip=strip, geom=geom, curve=curve, code=code, mat=mat, anch=anch,
                 as_min_mm2_per_m=z.as_min_mm2_per_m, simplified_rules=simple,
             )
-            pieces: list[Run] = []
-            for run in runs:
-                pieces.extend(
-                    split_for_stock(
-                        run,
-                        stock_mm=project.reinforcement.stock_length_mm,
-                        lap_mm=anch.l0(run.phi_mm, run.face),
-                        curve=curve,
-                    )
-                )
+            pieces = split_zone_runs(
+                runs,
+                stock_mm=project.reinforcement.stock_length_mm,
+                lap_mm=anch.l0(z.phi_mm, z.face),
+                curve=curve,
+            )
             for p in pieces:
                 bar_sets.append(run_to_barset(p, strip, bar_type, shape_rules))
             if z.face is Face.TOP:
@@ -369,7 +366,7 @@ def _distribution(strip, project, code, zones, bar_sets, anch, bar_type, rules) 
                 set_id=f"{z.zone_id}-D", zone_id=z.zone_id, face=z.face,
                 x_start_mm=x0, x_end_mm=x1,
                 as_principal_mm2_per_m=z.as_prov_mm2_per_m,
-                bar_type=bar_type, rules=rules, lap_for=anch.l0,
+                bar_type=bar_type, rules=rules, lap_for=anch.l0_all,
             )
         )
     return out

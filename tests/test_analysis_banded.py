@@ -28,10 +28,10 @@ def _random_spd(n: int, p: int, rng: np.random.Generator) -> np.ndarray:
     n=st.integers(1, 40),
     p=st.integers(0, 4),
     m=st.integers(1, 6),
-    seed=st.integers(0, 2**32 - 1),
+    stream=st.integers(0, 2**32 - 1),
 )
-def test_solution_matches_numpy_dense_solve(n: int, p: int, m: int, seed: int) -> None:
-    rng = np.random.default_rng(seed)
+def test_solution_matches_numpy_dense_solve(n: int, p: int, m: int, stream: int) -> None:
+    rng = np.random.default_rng(stream)
     a = _random_spd(n, p, rng)
     b = rng.normal(size=(n, m))
     x = solve_banded_spd(band_from_dense(a, p), b)
@@ -43,9 +43,9 @@ def test_solution_matches_numpy_dense_solve(n: int, p: int, m: int, seed: int) -
 
 
 @settings(max_examples=30, deadline=None)
-@given(n=st.integers(1, 25), p=st.integers(0, 3), seed=st.integers(0, 2**32 - 1))
-def test_factor_matches_numpy_cholesky(n: int, p: int, seed: int) -> None:
-    a = _random_spd(n, p, np.random.default_rng(seed))
+@given(n=st.integers(1, 25), p=st.integers(0, 3), stream=st.integers(0, 2**32 - 1))
+def test_factor_matches_numpy_cholesky(n: int, p: int, stream: int) -> None:
+    a = _random_spd(n, p, np.random.default_rng(stream))
     f = cholesky_banded(band_from_dense(a, p))
     ref = np.linalg.cholesky(a)
     np.testing.assert_allclose(f.lower, band_from_dense(ref, p), rtol=1e-10, atol=1e-12)

@@ -1,0 +1,205 @@
+"""Sheets of the layout drawing: sheet size and scale, viewports, general notes, title block.
+
+Pure. One sheet per strip, ISO 216 A2 or A1 landscape (A2 594 x 420, A1 841 x 594 mm), with a
+frame 20 mm from the left (filing) edge and 10 mm from the others (ISO 5457, from memory). The
+right-hand column holds the cross-section viewport, the general notes and the title block; the
+rest holds one viewport on the section and plans at a standard scale.
+
+Choice: A2 when the strip fits it at 1:50 or larger, else A1 at the largest standard scale that
+fits (1:20, 1:25, 1:50, 1:75, 1:100; beyond that 1:200, 1:250, 1:500 for very long strips).
+"""
+
+from __future__ import annotations
+
+__all__ = [
+    "A1",
+    "A2",
+    "DETAIL_SCALES",
+    "MAIN_SCALES",
+    "Sheet",
+    "SheetPlan",
+    "choose_sheet",
+    "general_notes",
+    "title_fields",
+]
+
+import math
+from dataclasses import dataclass
+
+from detailer import CAUTION, __version__
+from detailer.io.dxf_geometry import Box
+from detailer.io.dxf_layout import StripPlan, plan_strip
+from detailer.layout import BarRole, StripDetail
+from detailer.model import Project
+
+
+@dataclass(frozen=True, slots=True)
+class Sheet:
+    name: str
+    width_mm: float
+    height_mm: float
+
+
+A2 = Sheet("A2", 594.0, 420.0)  # ISO 216
+A1 = Sheet("A1", 841.0, 594.0)  # ISO 216
+MAIN_SCALES = (20, 25, 50, 75, 100)
+LONG_STRIP_SCALES = (200, 250, 500)
+DETAIL_SCALES = (5, 10, 20, 25)
+#: A2 is used only at this scale or larger; smaller scales go to A1 (common practice).
+A2_SMALLEST_SCALE = 50
+
+FRAME_LEFT_MM = 20.0
+FRAME_MM = 10.0
+COLUMN_MM = 175.0  # right-hand column: cross-section, notes, title block
+TITLE_BLOCK_H_MM = 62.0
+DETAIL_MAX_H_MM = 75.0
+NOTE_TEXT_MM = 2.5
+NOTE_LINE_MM = 4.2  # line pitch of the notes
+NOTE_WRAP_CHARS = 68  # characters per line of the notes column (estimate)
+
+
+@dataclass(frozen=True, slots=True)
+class Viewport:
+    centre: tuple[float, float]  # paper mm
+    size: tuple[float, float]  # paper mm
+    view_centre: tuple[float, float]  # model mm (in the strip's own coordinates)
+    view_height: float  # model mm
+
+
+@dataclass(frozen=True, slots=True)
+class SheetPlan:
+    sheet: Sheet
+    plan: StripPlan
+    frame: Box
+    column: Box
+    main: Viewport
+    detail: Viewport
+    notes_top: float  # paper y of the first notes line
+    title_box: Box
+
+
+def _fits_detail(plan: StripPlan) -> bool:
+    b = plan.detail_box
+    s = plan.detail_scale
+    return b.width / s <= COLUMN_MM - 10.0 and b.height / s <= DETAIL_MAX_H_MM
+
+
+def _main_area(sheet: Sheet) -> Box:
+    return Box(FRAME_LEFT_MM + 5.0, FRAME_MM + 5.0,
+               sheet.width_mm - FRAME_MM - COLUMN_MM - 5.0, sheet.height_mm - FRAME_MM - 5.0)  # fmt: skip
+
+
+def notes_lines_count(lines: tuple[str, ...]) -> int:
+    return sum(max(1, math.ceil(len(t) / NOTE_WRAP_CHARS)) for t in lines)
+
+
+def choose_sheet(project: Project, sd: StripDetail) -> SheetPlan:
+    """The sheet, scales and viewports for one strip (see the module docstring for the rule)."""
+    detail_scale = DETAIL_SCALES[-1]
+    for ds in DETAIL_SCALES:
+        if _fits_detail(plan_strip(sd, MAIN_SCALES[-1], ds)):
+            detail_scale = ds
+            break
+    n_notes = notes_lines_count(general_notes(project, sd))
+    options = [(A2, s) for s in MAIN_SCALES if s <= A2_SMALLEST_SCALE]
+    options += [(A1, s) for s in MAIN_SCALES + LONG_STRIP_SCALES]
+    chosen = None
+    for sheet, s in options:
+        plan = plan_strip(sd, s, detail_scale)
+        area = _main_area(sheet)
+        column_h = DETAIL_MAX_H_MM + 14.0 + n_notes * NOTE_LINE_MM + TITLE_BLOCK_H_MM
+        if (plan.main_box.width / s <= area.width and plan.main_box.height / s <= area.height
+                and column_h <= sheet.height_mm - 2 * FRAME_MM):  # fmt: skip
+            chosen = (sheet, plan)
+            break
+    if chosen is None:  # longer than 1:500 on A1 allows: keep 1:500, the viewport crops
+        chosen = (A1, plan_strip(sd, LONG_STRIP_SCALES[-1], detail_scale))
+    sheet, plan = chosen
+    return _sheet_plan(sheet, plan)
+
+
+def _sheet_plan(sheet: Sheet, plan: StripPlan) -> SheetPlan:
+    frame = Box(FRAME_LEFT_MM, FRAME_MM, sheet.width_mm - FRAME_MM, sheet.height_mm - FRAME_MM)
+    column = Box(frame.x1 - COLUMN_MM, frame.y0, frame.x1, frame.y1)
+    area = _main_area(sheet)
+    s = plan.scale
+    mb = plan.main_box.grow(2.0 * s)
+    w = min(mb.width / s, area.width)
+    h = min(mb.height / s, area.height)
+    # the main view sits at the top of its area, left-aligned: the eye starts there
+    main = Viewport(
+        centre=(area.x0 + w / 2, area.y1 - h / 2),
+        size=(w, h),
+        view_centre=((mb.x0 + mb.x1) / 2, (mb.y0 + mb.y1) / 2),
+        view_height=h * s,
+    )
+    ds = plan.detail_scale
+    db = plan.detail_box.grow(2.0 * ds)
+    dw = min(db.width / ds, COLUMN_MM - 6.0)
+    dh = min(db.height / ds, DETAIL_MAX_H_MM)
+    detail = Viewport(
+        centre=(column.x0 + 3.0 + dw / 2, column.y1 - 3.0 - dh / 2),
+        size=(dw, dh),
+        view_centre=((db.x0 + db.x1) / 2, (db.y0 + db.y1) / 2),
+        view_height=dh * ds,
+    )
+    notes_top = column.y1 - 6.0 - dh - 8.0
+    title_box = Box(column.x0, column.y0, column.x1, column.y0 + TITLE_BLOCK_H_MM)
+    return SheetPlan(sheet, plan, frame, column, main, detail, notes_top, title_box)
+
+
+def _mm(value: float) -> str:
+    """A length to print in the notes: whole mm, rounded up (never shorter than designed)."""
+    return f"{math.ceil(value - 1e-6):d}"
+
+
+def general_notes(project: Project, sd: StripDetail) -> tuple[str, ...]:
+    """The general notes of a strip's sheet, one string per note line (before wrapping)."""
+    strip = sd.strip
+    m = project.materials
+    lines = [
+        "GENERAL NOTES",
+        "1. All dimensions in mm. Do not scale.",
+        f"2. Concrete {m.concrete_class}, exposure class {m.exposure_class}.",
+        f"3. Nominal cover: top {strip.cover_top_mm:g}, bottom {strip.cover_bottom_mm:g}, "
+        f"sides and bar ends {strip.cover_side_mm:g}.",
+        f"4. Reinforcement: type {m.bar_type} to BS 8666 notation, f_yk = {m.f_yk:g} N/mm2, "
+        f"ductility class {m.ductility_class}, to BS 4449; bent to BS 8666.",
+        "5. Callouts read: number, type and size, mark, centres, layer (e.g. 25H12-03-200 B1). "
+        "T1/T2 top outer/inner layer, B1/B2 bottom outer/inner layer.",
+        "6. Curtailment is dimensioned from the face of the nearest support; spans centreline "
+        "to centreline.",
+        "7. Anchorage and lap lengths used (design values, EN 1992-1-1 8.4 and 8.7):",
+    ]
+    for a in sd.anchorage:
+        lines.append(
+            f"   {m.bar_type}{a.phi_mm} {a.layer} ({a.bond} bond): l_bd = {_mm(a.l_bd_mm)}, "
+            f"lap l_0 = {_mm(a.l_0_mm)}"
+        )
+    if any(b.offset_mm > 0 for b in sd.bar_sets if b.role is BarRole.PRINCIPAL):
+        lines.append("8. Alternate bar groups are drawn slightly apart for clarity; they lie in "
+                     "one layer.")  # fmt: skip
+    lines.append(f"Bar schedule: see the schedule of drawing {project.drawing_ref} "
+                 f"revision {project.revision}.")  # fmt: skip
+    lines.append(CAUTION)
+    return tuple(lines)
+
+
+def title_fields(project: Project, sd: StripDetail, sheet_plan: SheetPlan, index: int,
+                 total: int) -> tuple[tuple[str, str], ...]:  # fmt: skip
+    """(caption, value) pairs of the title block, top to bottom."""
+    strip = sd.strip
+    plan = sheet_plan.plan
+    title = f"Strip {strip.id} - reinforcement layout"
+    return (
+        ("Project", project.title),
+        ("Project id", project.id),
+        ("Drawing", title),
+        ("Strip", f"{strip.id}: {strip.description}" if strip.description else strip.id),
+        ("Drawing ref", f"{project.drawing_ref}  sheet {index} of {total}"),
+        ("Revision", project.revision),
+        ("Date", project.date),
+        ("Scale", f"1:{plan.scale} (section, plans), 1:{plan.detail_scale} (section 1-1) "
+                  f"at {sheet_plan.sheet.name}"),  # fmt: skip
+        ("Produced by", f"slabwright {__version__}"),
+    )

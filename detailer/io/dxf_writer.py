@@ -1,0 +1,261 @@
+"""The reinforcement layout drawing as DXF (R2013, mm): one drawing per project.
+
+Model space holds, per strip, a region stacked below the previous one: the longitudinal
+section at 1:1 (x as in the detail, so bar positions read back unchanged), the bottom and top
+plans, and cross-section 1-1 to the right. Paper space holds one sheet per strip, layout
+"Strip <id>": frame, a viewport on the section and plans at a standard scale, a viewport on the
+cross-section, the general notes and the title block (:mod:`detailer.io.dxf_sheet`).
+
+Every bar entity carries XDATA under the application id ``SLABWRIGHT`` (mark, strip, set,
+layer, count, type and size, spacing, length, shape code and dimensions, x_start, x_end); so do
+callouts and dimensions. :mod:`detailer.io.dxf_readback` reads them back.
+
+:func:`write_layout` is pure: it returns the bytes; the same input gives the same bytes (fixed
+header metadata, handles in creation order, numbers formatted with fixed decimals).
+"""
+
+from __future__ import annotations
+
+__all__ = ["build_layout", "layout_name", "write_layout", "write_layout_file"]
+
+import contextlib
+import io
+import re
+from collections.abc import Iterator
+from pathlib import Path
+
+import ezdxf
+from ezdxf import units
+from ezdxf.document import Drawing
+from ezdxf.enums import TextEntityAlignment
+from ezdxf.lldxf import const
+
+from detailer.io import dxf_style as st
+from detailer.io.atomic import write_output
+from detailer.io.dxf_geometry import Fields
+from detailer.io.dxf_layout import View
+from detailer.io.dxf_sheet import (
+    NOTE_LINE_MM,
+    NOTE_TEXT_MM,
+    SheetPlan,
+    choose_sheet,
+    general_notes,
+    title_fields,
+)
+from detailer.layout import ProjectDetail
+
+#: Gap between two strips' regions in model space, mm.
+REGION_GAP_MM = 10000.0
+_BAD_NAME = re.compile(r'[<>/\\":;?*|=`]')
+
+
+def layout_name(strip_id: str) -> str:
+    """The paper-space layout of a strip: "Strip S1" (characters DXF forbids become "_")."""
+    return "Strip " + _BAD_NAME.sub("_", strip_id)
+
+
+@contextlib.contextmanager
+def _fixed_metadata() -> Iterator[None]:
+    """Fixed creation dates and GUIDs while writing (ezdxf's global option, restored after)."""
+    old = ezdxf.options.write_fixed_meta_data_for_testing
+    ezdxf.options.write_fixed_meta_data_for_testing = True
+    try:
+        yield
+    finally:
+        ezdxf.options.write_fixed_meta_data_for_testing = old
+
+
+def write_layout(detail: ProjectDetail) -> bytes:
+    """The layout drawing of a detailed project (bar sets carrying marks) as DXF bytes."""
+    stream = io.StringIO()
+    with _fixed_metadata():
+        build_layout(detail).write(stream)
+    return stream.getvalue().encode("utf-8")
+
+
+def write_layout_file(path: Path, detail: ProjectDetail) -> None:
+    """Write the layout DXF atomically (an ``OutputError`` names the path and the fix)."""
+    write_output(Path(path), write_layout(detail))
+
+
+def build_layout(detail: ProjectDetail) -> Drawing:
+    """The ezdxf document of the layout drawing (see the module docstring)."""
+    project = detail.project
+    plans = [choose_sheet(project, sd) for sd in detail.strips]
+    doc = ezdxf.new("R2013", setup=False, units=units.MM)
+    _setup(doc, plans)
+    msp = doc.modelspace()
+    y_top = 0.0
+    names: set[str] = set()
+    for index, (sd, sp) in enumerate(zip(detail.strips, plans), start=1):
+        plan = sp.plan
+        dy = y_top - plan.main_box.y1
+        _emit(msp, plan.main, 0.0, dy)
+        ddx = plan.main_box.x1 + 0.5 * REGION_GAP_MM - plan.detail_box.x0
+        ddy = dy + plan.main_box.y1 - plan.detail_box.y1
+        _emit(msp, plan.detail, ddx, ddy)
+        name = layout_name(sd.strip.id)
+        if name in names:
+            raise ValueError(f"two strips give the same layout name {name!r}")
+        names.add(name)
+        _sheet(doc, name, project, sd, sp, (0.0, dy), (ddx, ddy), index, len(detail.strips))
+        y_top = dy + min(plan.main_box.y0, ddy - dy + plan.detail_box.y0) - REGION_GAP_MM
+    if detail.strips:
+        doc.layouts.set_active_layout(layout_name(detail.strips[0].strip.id))
+        doc.layouts.delete("Layout1")
+    return doc
+
+
+def _setup(doc: Drawing, plans: list[SheetPlan]) -> None:
+    """Define every table entry before use: appid, linetypes, text style, layers, dimstyles."""
+    doc.appids.add(st.APPID)
+    for lt in st.LINETYPES:
+        doc.linetypes.add(lt.name, pattern=[lt.total_mm, *lt.pattern_mm],
+                          description=lt.description)  # fmt: skip
+    doc.styles.add(st.TEXT_STYLE, font=st.TEXT_FONT)
+    for layer in st.LAYERS:
+        doc.layers.add(layer.name, color=layer.colour, linetype=layer.linetype,
+                       lineweight=layer.lineweight)  # fmt: skip
+        entry = doc.layers.get(layer.name)
+        entry.description = layer.description
+        if not layer.plot:
+            entry.dxf.plot = 0
+    scales = sorted({p.plan.scale for p in plans} | {p.plan.detail_scale for p in plans})
+    for s in scales:
+        doc.dimstyles.add(
+            st.dimstyle_name(s),
+            dxfattribs={
+                "dimtxsty": st.TEXT_STYLE,
+                "dimtxt": 2.5,
+                "dimasz": 2.0,
+                "dimtsz": 1.5,  # oblique ticks, the usual terminator on UK structural drawings
+                "dimscale": float(s),
+                "dimlfac": 1.0,
+                "dimdec": 0,
+                "dimlunit": 2,
+                "dimexe": 1.5,
+                "dimexo": 1.5,
+                "dimgap": 1.0,
+                "dimtad": 1,
+                "dimtih": 0,
+                "dimtoh": 0,
+                "dimdle": 0.0,
+                "dimzin": 8,
+                "dimtmove": 2,
+                "dimdsep": ord("."),
+            },
+        )
+    doc.header["$LTSCALE"] = 1.0
+    doc.header["$PSLTSCALE"] = 0  # linetype scale is set per entity to its view's plot scale
+    doc.header["$LWDISPLAY"] = 1
+    doc.header["$TEXTSTYLE"] = st.TEXT_STYLE
+    doc.header["$DIMSTYLE"] = st.dimstyle_name(scales[0]) if scales else "Standard"
+
+
+def _attribs(layer: str, **extra) -> dict:
+    return {"layer": layer, **extra}
+
+
+def _xdata(entity, fields: Fields) -> None:
+    if fields:
+        entity.set_xdata(st.APPID, st.xdata_tags(fields))
+
+
+def _emit(layout, view: View, dx: float, dy: float) -> None:
+    """Add the view's primitives to ``layout``, shifted by (dx, dy)."""
+    for p in view.polys:
+        pts = [(x + dx, y + dy, b) for x, y, b in p.points]
+        e = layout.add_lwpolyline(pts, format="xyb", close=p.closed,
+                                  dxfattribs=_attribs(p.layer, const_width=p.width))  # fmt: skip
+        _xdata(e, p.xdata)
+    for ln in view.lines:
+        e = layout.add_line((ln.start[0] + dx, ln.start[1] + dy), (ln.end[0] + dx, ln.end[1] + dy),
+                            dxfattribs=_attribs(ln.layer, ltscale=ln.ltscale))  # fmt: skip
+    for d in view.dots:  # a donut: two half-circle arcs of width r, closing to a disc
+        r = d.diameter / 4
+        pts = [(d.x + dx - r, d.y + dy, 1.0), (d.x + dx + r, d.y + dy, 1.0)]
+        e = layout.add_lwpolyline(pts, format="xyb", close=True,
+                                  dxfattribs=_attribs(d.layer, const_width=2 * r))  # fmt: skip
+        _xdata(e, d.xdata)
+    for c in view.circles:
+        layout.add_circle((c.x + dx, c.y + dy), c.radius, dxfattribs=_attribs(c.layer))
+    for h in view.hatches:
+        hatch = layout.add_hatch(dxfattribs=_attribs(h.layer))
+        hatch.paths.add_polyline_path([(x + dx, y + dy) for x, y in h.boundary], is_closed=True)
+        hatch.set_pattern_fill(h.pattern, scale=h.scale)
+    for t in view.texts:
+        e = layout.add_text(t.text, height=t.height,
+                            dxfattribs=_attribs(t.layer, style=st.TEXT_STYLE))  # fmt: skip
+        e.set_placement((t.x + dx, t.y + dy), align=TextEntityAlignment[t.align])
+        _xdata(e, t.xdata)
+    for d in view.dims:
+        dim = layout.add_linear_dim(
+            base=(d.base[0] + dx, d.base[1] + dy),
+            p1=(d.p1[0] + dx, d.p1[1] + dy),
+            p2=(d.p2[0] + dx, d.p2[1] + dy),
+            angle=d.angle,
+            dimstyle=st.dimstyle_name(d.scale),
+            dxfattribs=_attribs(st.DIMENSION_LAYER.name),
+        )
+        if d.text_at is not None:
+            dim.set_location((d.text_at[0] + dx, d.text_at[1] + dy), leader=False)
+        dim.render()
+        _xdata(dim.dimension, d.xdata)
+
+
+def _sheet(doc: Drawing, name: str, project, sd, sp: SheetPlan, shift, detail_shift,
+           index: int, total: int) -> None:  # fmt: skip
+    """One paper-space sheet: frame, viewports, notes, title block."""
+    psp = doc.layouts.new(name)
+    psp.page_setup(size=(sp.sheet.width_mm, sp.sheet.height_mm), margins=(0, 0, 0, 0),
+                   units="mm", scale=(1, 1), name=f"ISO {sp.sheet.name}")  # fmt: skip
+    title = st.TITLE_LAYER.name
+    f = sp.frame
+    psp.add_lwpolyline([(f.x0, f.y0), (f.x1, f.y0), (f.x1, f.y1), (f.x0, f.y1)], close=True,
+                       dxfattribs=_attribs(title, lineweight=50))  # fmt: skip
+    c = sp.column
+    psp.add_line((c.x0, c.y0), (c.x0, c.y1), dxfattribs=_attribs(title))
+    for vp, (mx, my), s in ((sp.main, shift, sp.plan.scale),
+                            (sp.detail, detail_shift, sp.plan.detail_scale)):  # fmt: skip
+        e = psp.add_viewport(
+            center=vp.centre,
+            size=vp.size,
+            view_center_point=(vp.view_centre[0] + mx, vp.view_centre[1] + my),
+            view_height=vp.view_height,
+            dxfattribs=_attribs(st.VIEWPORT_LAYER.name),
+        )
+        e.dxf.flags = e.dxf.flags | const.VSF_LOCK_ZOOM
+        _xdata(e, (("kind", "viewport"), ("strip", sd.strip.id), ("scale", f"1:{s}")))
+    notes = st.NOTES_LAYER.name
+    y = sp.notes_top
+    text = "\\P".join(_escape_mtext(t) for t in general_notes(project, sd))
+    m = psp.add_mtext(text, dxfattribs=_attribs(notes, style=st.TEXT_STYLE,
+                                                char_height=NOTE_TEXT_MM))  # fmt: skip
+    m.dxf.insert = (c.x0 + 4.0, y)
+    m.dxf.width = c.x1 - c.x0 - 8.0
+    m.dxf.attachment_point = 1  # top left
+    m.dxf.line_spacing_factor = NOTE_LINE_MM / (NOTE_TEXT_MM * 1.667)
+    _title_block(psp, sp, title_fields(project, sd, sp, index, total))
+
+
+def _escape_mtext(text: str) -> str:
+    return text.replace("\\", "\\\\").replace("{", "\\{").replace("}", "\\}")
+
+
+def _title_block(psp, sp: SheetPlan, fields) -> None:
+    b = sp.title_box
+    lay = st.TITLE_LAYER.name
+    psp.add_line((b.x0, b.y1), (b.x1, b.y1), dxfattribs=_attribs(lay, lineweight=50))
+    row_h = (b.y1 - b.y0) / len(fields)
+    cap_w = 30.0
+    psp.add_line((b.x0 + cap_w, b.y0), (b.x0 + cap_w, b.y1), dxfattribs=_attribs(lay))
+    for i, (caption, value) in enumerate(fields):
+        y_hi = b.y1 - i * row_h
+        if i:
+            psp.add_line((b.x0, y_hi), (b.x1, y_hi), dxfattribs=_attribs(lay, lineweight=13))
+        ym = y_hi - row_h / 2
+        room = b.x1 - b.x0 - cap_w - 4.0
+        fit = room / max(len(value) * st.CHAR_WIDTH_FACTOR, 1.0)
+        for x, text, h in ((b.x0 + 2.0, caption, 2.0), (b.x0 + cap_w + 2.0, value, min(2.5, fit))):
+            e = psp.add_text(text, height=h, dxfattribs=_attribs(lay, style=st.TEXT_STYLE))
+            e.set_placement((x, ym), align=TextEntityAlignment.MIDDLE_LEFT)
