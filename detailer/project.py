@@ -27,6 +27,7 @@ from detailer.errors import ProjectError, ProjectErrors, format_key_path
 from detailer.model import Project
 
 # Re-exported for callers that list the allowed values.
+from detailer.project_ga import apply_general_arrangement
 from detailer.project_build import (
     BAR_DIAMETERS_MM,
     CONCRETE_CLASSES,
@@ -141,7 +142,7 @@ def parse_project(text: str, file: str = "<project>") -> Project:
             fix="start the file with project:, materials: and strips: blocks",
         )
     locator = _Locator(file, source)
-    merged = locator.merge_defaults(data)
+    merged = apply_general_arrangement(locator.merge_defaults(data), file, locator.error)
     try:
         validated = FileIn.model_validate(merged)
     except ValidationError as exc:
