@@ -140,7 +140,9 @@ class Arrangement:
     """One load arrangement: an equation and the segments carrying the variable load.
 
     ``n_segments`` and the cantilever flags only serve the ``label``; build with
-    ``make_arrangement`` to fill them from the model.
+    ``make_arrangement`` to fill them from the model. ``variant`` names the restraint
+    variant of the beam the arrangement acts on when an envelope covers several
+    (``analysis.envelope.analyse_envelope_variants``); "" is the one and only model.
     """
 
     equation: str
@@ -148,10 +150,16 @@ class Arrangement:
     n_segments: int = 0
     left_cantilever: bool = False
     right_cantilever: bool = False
+    variant: str = ""
 
     @property
     def label(self) -> str:
-        """E.g. "6.10b, Q on spans 1, 3" or "6.10, Q on left cantilever, span 2"."""
+        """E.g. "6.10b, Q on spans 1, 3", "6.10, Q on left cantilever, span 2" or, with a
+        variant, "6.10b, Q on spans 1, 3 (end A pinned)"."""
+        base = self._loads_label()
+        return f"{base} ({self.variant})" if self.variant else base
+
+    def _loads_label(self) -> str:
         loaded = self.loaded_segments
         if not loaded:
             return f"{self.equation}, G only"
@@ -175,8 +183,11 @@ class Arrangement:
         return f"{self.equation}, Q on " + ", ".join(parts)
 
 
-def make_arrangement(model: BeamModel, equation: str, loaded: Sequence[int]) -> Arrangement:
-    """An ``Arrangement`` that knows the model's segments (for its label)."""
+def make_arrangement(
+    model: BeamModel, equation: str, loaded: Sequence[int], variant: str = ""
+) -> Arrangement:
+    """An ``Arrangement`` that knows the model's segments (for its label) and, optionally,
+    the restraint variant it belongs to."""
     n = model.n_segments
     return Arrangement(
         equation=equation,
@@ -184,4 +195,5 @@ def make_arrangement(model: BeamModel, equation: str, loaded: Sequence[int]) -> 
         n_segments=n,
         left_cantilever=model.is_cantilever(0),
         right_cantilever=model.is_cantilever(n - 1),
+        variant=variant,
     )

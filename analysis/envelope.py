@@ -12,6 +12,11 @@ sum_(loaded i) Q_i, so
 
 Redistribution (``analysis.redistribution``) is linear and is applied to the unit cases.
 Large strips are evaluated in blocks of stations, so memory stays bounded.
+
+Restraint variants (``analyse_envelope_variants``): one beam analysed with different end
+restraints (e.g. a monolithic end idealised as fixed and as pinned) under the same loads;
+the envelope is the max/min over the variants at each station, and every governing
+``Arrangement`` names its variant. Each variant costs one single envelope.
 """
 
 from __future__ import annotations
@@ -38,7 +43,13 @@ from analysis.redistribution import check_delta, redistribute_solution
 from analysis.stations import Stations
 from analysis.stiffness import NodeSolution, solve_nodes
 
-__all__ = ["SpanSummary", "StripEnvelope", "SupportSummary", "analyse_envelope"]
+__all__ = [
+    "SpanSummary",
+    "StripEnvelope",
+    "SupportSummary",
+    "analyse_envelope",
+    "analyse_envelope_variants",
+]
 
 StationKind = Literal["m_max", "m_min", "v_max", "v_min"]
 NodeKind = Literal["m_max", "m_min", "r_max", "r_min"]
@@ -102,6 +113,15 @@ class _Basis:
         return eq.gamma_g * vals[..., 0] + eq.gamma_q * vals[..., 1:][..., mask].sum(axis=-1)
 
 
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
+class _Variant:
+    """One restraint variant of the beam and its unit-case basis (internal)."""
+
+    name: str  # "" for the one and only model
+    model: BeamModel
+    basis: _Basis
+
+
 @dataclass(frozen=True, slots=True)
 class SpanSummary:
     """Design values of one segment (a span or a cantilever)."""
@@ -150,7 +170,12 @@ def _frozen(a: np.ndarray) -> np.ndarray:
 
 @dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class StripEnvelope:
-    """Envelopes at the stations (arrays read-only) and per node; sagging moments positive."""
+    """Envelopes at the stations (arrays read-only) and per node; sagging moments positive.
+
+    Over several restraint variants (``analyse_envelope_variants``) every array is the
+    max/min over the variants, ``model`` is the first variant's and each governing
+    ``Arrangement`` names its variant.
+    """
 
     model: BeamModel
     stations: Stations
@@ -169,10 +194,32 @@ class StripEnvelope:
     node_m_min_knm: np.ndarray
     reactions_max_kn: np.ndarray
     reactions_min_kn: np.ndarray
-    _basis: _Basis = field(repr=False, compare=False)
+    variants: tuple[str, ...]  # restraint variants enveloped, ("",) for a single model
+    _parts: tuple[_Variant, ...] = field(repr=False, compare=False)
 
-    def _arr(self, eq: Equation, loaded: Sequence[int]) -> Arrangement:
-        return make_arrangement(self.model, eq.name, loaded)
+    def model_of(self, variant: str) -> BeamModel:
+        """The beam model of one restraint variant."""
+        return self._part(variant).model
+
+    def _part(self, variant: str) -> _Variant:
+        for part in self._parts:
+            if part.name == variant:
+                return part
+        raise ValueError(f"variant {variant!r} is not one of {list(self.variants)}")
+
+    def _pick(self, rows: Sequence[np.ndarray], want_max: bool) -> Arrangement:
+        """Worst arrangement over the variants from unit-case values (1 + n_q,) of each
+        variant at one place; near ties go to the earlier variant (deterministic labels)."""
+        extremes = []
+        for part, vals in zip(self._parts, rows):
+            hi, lo, _, _ = part.basis.bounds(vals[None, :])
+            extremes.append(float(hi.max()) if want_max else -float(lo.min()))
+        best = max(extremes)
+        tol = _LABEL_RTOL * (1.0 + max(abs(e) for e in extremes))
+        k = next(k for k, e in enumerate(extremes) if e >= best - tol)
+        part = self._parts[k]
+        eq, loaded = part.basis.governing(rows[k], want_max)
+        return make_arrangement(self.model, eq.name, loaded, part.name)
 
     def governing(self, kind: StationKind, i: int) -> Arrangement:
         """The arrangement giving ``kind`` at station i."""
@@ -182,45 +229,49 @@ class StripEnvelope:
         n = len(self.stations)
         if not -n <= i < n:
             raise IndexError(f"station {i} out of range (0..{n - 1})")
-        sol, idx = self._basis.sol, np.array([i % n])
-        vals = (sol.moments_t(idx) if quantity[kind] == 0 else sol.shears_t(idx))[0]
-        eq, loaded = self._basis.governing(vals, kind.endswith("max"))
-        return self._arr(eq, loaded)
+        idx = np.array([i % n])
+        rows = [
+            (p.basis.sol.moments_t(idx) if quantity[kind] == 0 else p.basis.sol.shears_t(idx))[0]
+            for p in self._parts
+        ]
+        return self._pick(rows, kind.endswith("max"))
 
     def governing_at_node(self, kind: NodeKind, node: int) -> Arrangement:
         """The arrangement giving the node moment ("m_max"/"m_min") or reaction
         ("r_max"/"r_min") at a node."""
-        sol = self._basis.sol
         src = {"m_max": 0, "m_min": 0, "r_max": 1, "r_min": 1}
         if kind not in src:
             raise ValueError(f"kind must be one of {sorted(src)}, got {kind!r}")
-        arr = sol.node_moment_knm if src[kind] == 0 else sol.reactions_kn
-        eq, loaded = self._basis.governing(arr[:, node], kind.endswith("max"))
-        return self._arr(eq, loaded)
+        rows = [
+            (p.basis.sol.node_moment_knm if src[kind] == 0 else p.basis.sol.reactions_kn)[:, node]
+            for p in self._parts
+        ]
+        return self._pick(rows, kind.endswith("max"))
 
-    def _equation(self, arrangement: Arrangement) -> Equation:
-        eq = next((e for e in self._basis.equations if e.name == arrangement.equation), None)
+    def _basis_of(self, arrangement: Arrangement) -> tuple[_Basis, Equation]:
+        basis = self._part(arrangement.variant).basis
+        eq = next((e for e in basis.equations if e.name == arrangement.equation), None)
         if eq is None:
-            names = [e.name for e in self._basis.equations]
+            names = [e.name for e in basis.equations]
             raise ValueError(f"equation {arrangement.equation!r} is not one of {names}")
-        return eq
+        return basis, eq
 
     def arrangement_values(
         self, arrangement: Arrangement, idx: slice | np.ndarray = slice(None)
     ) -> tuple[np.ndarray, np.ndarray]:
-        """(M kNm, V kN) of one arrangement at stations ``idx`` (redistributed like the
-        envelope)."""
-        eq = self._equation(arrangement)
-        sol, loaded = self._basis.sol, arrangement.loaded_segments
-        m = self._basis.combine(sol.moments_t(idx), eq, loaded)
-        v = self._basis.combine(sol.shears_t(idx), eq, loaded)
+        """(M kNm, V kN) of one arrangement (on its variant) at stations ``idx``
+        (redistributed like the envelope)."""
+        basis, eq = self._basis_of(arrangement)
+        sol, loaded = basis.sol, arrangement.loaded_segments
+        m = basis.combine(sol.moments_t(idx), eq, loaded)
+        v = basis.combine(sol.shears_t(idx), eq, loaded)
         return m, v
 
     def arrangement_reactions(self, arrangement: Arrangement) -> np.ndarray:
-        """(n_nodes,) reactions (kN, up +) of one arrangement (redistributed like the
-        envelope)."""
-        eq = self._equation(arrangement)
-        return self._basis.combine(self._basis.sol.reactions_kn.T, eq, arrangement.loaded_segments)
+        """(n_nodes,) reactions (kN, up +) of one arrangement (on its variant; redistributed
+        like the envelope)."""
+        basis, eq = self._basis_of(arrangement)
+        return basis.combine(basis.sol.reactions_kn.T, eq, arrangement.loaded_segments)
 
     def _peak(self, i: int, want_max: bool) -> tuple[float, float, Arrangement]:
         """Envelope extreme near station i, refined between stations for the governing
@@ -348,20 +399,64 @@ def analyse_envelope(
     moments of every arrangement are multiplied by ``redistribution_delta``
     (EN 1992-1-1 5.5; 1.0 = elastic).
     """
-    delta = check_delta(redistribution_delta)
-    if not isinstance(factors, ActionFactors):
-        raise TypeError(f"factors must be an ActionFactors, got {type(factors).__name__}")
-    eqs = equations(Combination(combination), factors)
-    pattern = PatternRule(pattern)
-    _check_assigned(model, permanent, "permanent")
-    _check_assigned(model, variable, "variable")
-    by_segment: dict[int, list[Load]] = {}
-    for ld in variable:
-        by_segment.setdefault(int(ld.segment), []).append(ld)
-    q_segments = np.array(sorted(by_segment), dtype=np.intp)
-    cases: list[list[Load]] = [list(permanent)] + [by_segment[int(s)] for s in q_segments]
-    names = ["permanent"] + [f"variable on segment {int(s)}" for s in q_segments]
-    sol = solve_nodes(model, cases, names)
+    return analyse_envelope_variants(
+        [("", model)], permanent, variable, factors, combination, pattern, redistribution_delta
+    )
+
+
+def _check_variants(models: Sequence[tuple[str, BeamModel]]) -> None:
+    """Variants must be one beam whose end restraints alone differ."""
+    if isinstance(models, (str, bytes)) or not isinstance(models, Sequence) or not models:
+        raise TypeError("models must be a non-empty sequence of (name, BeamModel) pairs")
+    names: list[str] = []
+    for k, item in enumerate(models):
+        if not (isinstance(item, tuple) and len(item) == 2):
+            raise TypeError(f"models[{k}] must be a (name, BeamModel) pair, got {item!r}")
+        name, model = item
+        if not isinstance(name, str) or not isinstance(model, BeamModel):
+            raise TypeError(f"models[{k}] must be a (str, BeamModel) pair, got {item!r}")
+        if name in names:
+            raise ValueError(f"variant name {name!r} appears twice")
+        names.append(name)
+    first = models[0][1]
+    for name, model in models[1:]:
+        same = (
+            model.node_x_mm == first.node_x_mm
+            and model.support_width_mm == first.support_width_mm
+            and model.ei_knm2 == first.ei_knm2
+            and model.station_spacing_fraction == first.station_spacing_fraction
+            and model.restraints[1:-1] == first.restraints[1:-1]
+        )
+        if not same:
+            raise ValueError(
+                f"variant {name!r}: nodes, support widths, EI, station spacing and interior "
+                f"supports must equal those of variant {models[0][0]!r} (only end restraints "
+                "may differ)"
+            )
+        for end in (0, -1):
+            if (model.restraints[end] is Restraint.FREE) != (
+                first.restraints[end] is Restraint.FREE
+            ):
+                raise ValueError(
+                    f"variant {name!r}: a free end (cantilever tip) must be free in every variant"
+                )
+
+
+def _one_variant(
+    name: str,
+    model: BeamModel,
+    cases: list[list[Load]],
+    case_names: list[str],
+    q_segments: np.ndarray,
+    eqs: tuple[Equation, ...],
+    pattern: PatternRule,
+    delta: float,
+    with_deflection: bool,
+) -> tuple[_Variant, list[np.ndarray]]:
+    """Basis and envelopes of one variant: [m_max, m_min, v_max, v_min, d_max, d_min,
+    node m_max, node m_min, r_max, r_min] (max at even, min at odd positions; the
+    deflections are empty unless ``with_deflection``)."""
+    sol = solve_nodes(model, cases, case_names)
     if delta != 1.0:
         sol = redistribute_solution(sol, delta)
     if pattern is PatternRule.ALL_AND_ALTERNATE:
@@ -374,11 +469,8 @@ def analyse_envelope(
     basis = _Basis(sol, q_segments, eqs, pattern, set_matrix, set_segments)
 
     n_st = len(sol.stations)
-    with_deflection = Combination(combination) in (
-        Combination.CHARACTERISTIC,
-        Combination.QUASI_PERMANENT,
-    )
-    outs = [np.empty(n_st) for _ in range(6)]
+    n_d = n_st if with_deflection else 0
+    outs = [np.empty(n_st) for _ in range(4)] + [np.empty(n_d) for _ in range(2)]
     block = max(64, _BLOCK_ENTRIES // sol.n_cases)
     for a in range(0, n_st, block):
         sl = slice(a, min(n_st, a + block))
@@ -386,12 +478,80 @@ def analyse_envelope(
         outs[2][sl], outs[3][sl] = basis.envelope(sol.shears_t(sl))
         if with_deflection:
             outs[4][sl], outs[5][sl] = basis.envelope(sol.deflections_t(sl))
-    nm_max, nm_min = basis.envelope(sol.node_moment_knm.T)
-    r_max, r_min = basis.envelope(sol.reactions_kn.T)
+    outs += list(basis.envelope(sol.node_moment_knm.T))
+    outs += list(basis.envelope(sol.reactions_kn.T))
+    return _Variant(name, model, basis), outs
+
+
+def _same_stations(a: Stations, b: Stations) -> bool:
+    return len(a) == len(b) and all(
+        np.array_equal(x, y)
+        for x, y in (
+            (a.x_mm, b.x_mm),
+            (a.segment, b.segment),
+            (a.local_mm, b.local_mm),
+            (a.side, b.side),
+            (a.start, b.start),
+        )
+    )
+
+
+def analyse_envelope_variants(
+    models: Sequence[tuple[str, BeamModel]],
+    permanent: Sequence[Load],
+    variable: Sequence[Load],
+    factors: ActionFactors,
+    combination: Combination,
+    pattern: PatternRule,
+    redistribution_delta: float = 1.0,
+) -> StripEnvelope:
+    """Envelope over restraint variants of one beam under the same loads.
+
+    ``models`` are (name, model) pairs with the same nodes, supports widths and EI; only the
+    end restraints differ (e.g. a monolithic end FIXED in one and PINNED in another). Each
+    variant is enveloped as ``analyse_envelope`` does; the result takes the max/min over the
+    variants at every station and node, its ``model`` is the first variant's, and each
+    governing ``Arrangement`` carries its variant's name (``Arrangement.variant``), which
+    ``arrangement_values`` and ``arrangement_reactions`` use to pick the model.
+    """
+    _check_variants(models)
+    delta = check_delta(redistribution_delta)
+    if not isinstance(factors, ActionFactors):
+        raise TypeError(f"factors must be an ActionFactors, got {type(factors).__name__}")
+    combination = Combination(combination)
+    eqs = equations(combination, factors)
+    pattern = PatternRule(pattern)
+    first = models[0][1]
+    _check_assigned(first, permanent, "permanent")
+    _check_assigned(first, variable, "variable")
+    by_segment: dict[int, list[Load]] = {}
+    for ld in variable:
+        by_segment.setdefault(int(ld.segment), []).append(ld)
+    q_segments = np.array(sorted(by_segment), dtype=np.intp)
+    cases: list[list[Load]] = [list(permanent)] + [by_segment[int(s)] for s in q_segments]
+    case_names = ["permanent"] + [f"variable on segment {int(s)}" for s in q_segments]
+    with_deflection = combination in (Combination.CHARACTERISTIC, Combination.QUASI_PERMANENT)
+
+    parts: list[_Variant] = []
+    outs: list[np.ndarray] = []
+    for name, model in models:
+        part, arrays = _one_variant(
+            name, model, cases, case_names, q_segments, eqs, pattern, delta, with_deflection
+        )
+        if parts and not _same_stations(part.basis.sol.stations, parts[0].basis.sol.stations):
+            raise ValueError(f"variant {name!r}: stations differ from variant {models[0][0]!r}")
+        if not outs:
+            outs = arrays
+        else:
+            outs = [
+                np.maximum(o, a) if k % 2 == 0 else np.minimum(o, a)
+                for k, (o, a) in enumerate(zip(outs, arrays))
+            ]
+        parts.append(part)
     return StripEnvelope(
-        model=model,
-        stations=sol.stations,
-        combination=Combination(combination),
+        model=first,
+        stations=parts[0].basis.sol.stations,
+        combination=combination,
         pattern=pattern,
         factors=factors,
         redistribution_delta=delta,
@@ -401,9 +561,10 @@ def analyse_envelope(
         v_min_kn=_frozen(outs[3]),
         deflection_max_mm=_frozen(outs[4]) if with_deflection else None,
         deflection_min_mm=_frozen(outs[5]) if with_deflection else None,
-        node_m_max_knm=_frozen(nm_max),
-        node_m_min_knm=_frozen(nm_min),
-        reactions_max_kn=_frozen(r_max),
-        reactions_min_kn=_frozen(r_min),
-        _basis=basis,
+        node_m_max_knm=_frozen(outs[6]),
+        node_m_min_knm=_frozen(outs[7]),
+        reactions_max_kn=_frozen(outs[8]),
+        reactions_min_kn=_frozen(outs[9]),
+        variants=tuple(p.name for p in parts),
+        _parts=tuple(parts),
     )

@@ -28,7 +28,7 @@ EXIT_INPUT_ERROR = 2
 
 _END_TEXT = {
     EndKind.PINNED: "pinned end",
-    EndKind.MONOLITHIC: "monolithic end (fixed)",
+    EndKind.MONOLITHIC: "monolithic end (fixed and pinned enveloped)",
     EndKind.CANTILEVER: "cantilever root",
 }
 

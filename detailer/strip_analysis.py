@@ -2,6 +2,17 @@
 
 Pure functions, no I/O. The analysis package knows no design code; the factors it needs come
 from ``detailer.codes.en1990`` here.
+
+Monolithic ends. A slab end built into an edge beam or wall is only partly fixed: the beam
+twists and cracks, so its true restraint lies between full fixity and none. Idealised as
+FIXED alone, the end-support hogging is overstated and the end-span sagging understated
+(a propped span gives 9 wL^2/128 sagging, a simply supported one wL^2/8). Common practice is
+to design for the envelope of both idealisations; so a strip with a monolithic end is
+analysed twice, with its monolithic ends FIXED and with the same ends PINNED, and every
+envelope (ULS and quasi-permanent SLS) takes the worse of the two at each station: hogging at
+the monolithic support from the fixed case, sagging and shears of the end span mostly from
+the pinned one. A monolithic end that is the only support (the root of a lone cantilever)
+stays fixed.
 """
 
 from __future__ import annotations
@@ -13,15 +24,17 @@ __all__ = [
     "flexural_stiffness_knm2",
     "strip_beam_model",
     "strip_loads",
+    "strip_model_variants",
 ]
 
-from dataclasses import dataclass
+import itertools
+from dataclasses import dataclass, replace
 
 from analysis.arrangements import ActionFactors
 from analysis.arrangements import Combination as AnalysisCombination
 from analysis.arrangements import PatternRule as AnalysisPatternRule
 from analysis.beam import BeamModel, Load, PointLoad, Restraint, UniformLoad
-from analysis.envelope import StripEnvelope, analyse_envelope
+from analysis.envelope import StripEnvelope, analyse_envelope_variants
 from detailer.codes.en1990 import partial_factors
 from detailer.model import Combination, EndKind, PatternRule, Project, Strip
 
@@ -41,7 +54,7 @@ class StripAnalysis:
     """Envelopes of one strip and everything that produced them."""
 
     strip_id: str
-    model: BeamModel
+    model: BeamModel  # monolithic ends FIXED (the first variant when there are several)
     permanent: tuple[Load, ...]  # characteristic G_k, self-weight included
     variable: tuple[Load, ...]  # characteristic Q_k
     factors: ActionFactors
@@ -50,6 +63,9 @@ class StripAnalysis:
     redistribution_delta: float  # applied to ``uls`` only
     uls: StripEnvelope  # ULS, EN 1990 Eq. (6.10) or (6.10a/b)
     sls_quasi_permanent: StripEnvelope  # SLS quasi-permanent, EN 1990 Eq. (6.16b), elastic
+    # Restraint variants both envelopes cover, e.g. ("end A fixed", "end A pinned") for a
+    # monolithic end (see the module docstring); () when the strip has one model.
+    variants: tuple[str, ...] = ()
 
 
 def flexural_stiffness_knm2(strip: Strip, f_ck: float) -> float:
@@ -128,19 +144,63 @@ def action_factors(strip: Strip, national_annex: str = "UK") -> ActionFactors:
     )
 
 
+def _released_ends(strip: Strip) -> tuple[int, ...]:
+    """Model node indices (0 first, -1 last) of the monolithic ends that may be released
+    to pinned: not the root of a lone cantilever (the strip's only support)."""
+    if len(strip.supports) < 2:
+        return ()
+    out: list[int] = []
+    if not strip.has_left_cantilever and strip.left_end.kind is EndKind.MONOLITHIC:
+        out.append(0)
+    if not strip.has_right_cantilever and strip.right_end.kind is EndKind.MONOLITHIC:
+        out.append(-1)
+    return tuple(out)
+
+
+def strip_model_variants(strip: Strip, f_ck: float = 30.0) -> tuple[tuple[str, BeamModel], ...]:
+    """The restraint variants the strip is enveloped over, as (name, model) pairs.
+
+    No monolithic end (or only a cantilever root): one pair ("", model). Otherwise every
+    combination of its monolithic ends FIXED or PINNED, named after the support labels:
+    "end A fixed" / "end A pinned"; with two such ends "A fixed, E fixed", "A fixed, E pinned",
+    ... (common practice: partial fixity at monolithic edges, the envelope of the
+    idealisations; one end fixed and the other pinned gives the largest hogging at the fixed
+    end of a single span, wL^2/8 against wL^2/12).
+    """
+    fixed = strip_beam_model(strip, f_ck)
+    ends = _released_ends(strip)
+    if not ends:
+        return (("", fixed),)
+    labels = [strip.supports[0 if e == 0 else -1].label for e in ends]
+    out: list[tuple[str, BeamModel]] = []
+    for choice in itertools.product((Restraint.FIXED, Restraint.PINNED), repeat=len(ends)):
+        restraints = list(fixed.restraints)
+        for e, r in zip(ends, choice):
+            restraints[e] = r
+        words = [f"{lab} {'fixed' if r is Restraint.FIXED else 'pinned'}" for lab, r in zip(labels, choice)]
+        name = f"end {words[0]}" if len(words) == 1 else ", ".join(words)
+        out.append((name, replace(fixed, restraints=tuple(restraints))))
+    return tuple(out)
+
+
 def analyse_strip(project: Project, strip: Strip) -> StripAnalysis:
-    """ULS envelope (with the project's redistribution) and quasi-permanent SLS envelope."""
-    model = strip_beam_model(strip, project.materials.f_ck)
+    """ULS envelope (with the project's redistribution) and quasi-permanent SLS envelope.
+
+    With a monolithic end both envelopes cover that end FIXED and PINNED
+    (``strip_model_variants``; why: the module docstring).
+    """
+    variants = strip_model_variants(strip, project.materials.f_ck)
+    model = variants[0][1]
     permanent, variable = strip_loads(strip)
     factors = action_factors(strip)
     combination = _COMBINATION[project.analysis.combination]
     pattern = _PATTERN[project.analysis.pattern]
     delta = project.analysis.redistribution_delta
-    uls = analyse_envelope(
-        model, permanent, variable, factors, combination, pattern, redistribution_delta=delta
+    uls = analyse_envelope_variants(
+        variants, permanent, variable, factors, combination, pattern, redistribution_delta=delta
     )
-    sls = analyse_envelope(
-        model,
+    sls = analyse_envelope_variants(
+        variants,
         permanent,
         variable,
         factors,
@@ -159,4 +219,5 @@ def analyse_strip(project: Project, strip: Strip) -> StripAnalysis:
         redistribution_delta=delta,
         uls=uls,
         sls_quasi_permanent=sls,
+        variants=tuple(name for name, _ in variants) if len(variants) > 1 else (),
     )

@@ -10,11 +10,16 @@ Sources:
   Eq. (6.16b) quasi-permanent G + psi_2 Q, psi_2 from EN 1990 Table A1.1;
 * EN 1991-1-1:2002 Table A.1: reinforced concrete 25 kN/m3;
 * anastruct (independent 2D frame FE library, test-only oracle) for the support moments and
-  reactions of the sample strips under every arrangement.
+  reactions of the sample strips under every arrangement, and (with the statics of span 1 as
+  a simple beam between its end moments) for the sagging of the sample's end span;
+* a monolithic end is enveloped FIXED and PINNED (common practice: partial fixity at
+  monolithic edges), so a span with a monolithic end sags as much as the pinned idealisation
+  gives and its monolithic support hogs as much as the fixed one gives.
 """
 
 from __future__ import annotations
 
+import dataclasses
 import itertools
 from pathlib import Path
 
@@ -152,24 +157,80 @@ def test_psi_2_follows_category() -> None:
 
 
 def test_fixed_fixed_span() -> None:
+    # Both ends monolithic: every fixed/pinned combination is enveloped (standard beam tables):
+    # fixed-fixed gives -wL^2/12 at the supports and wL^2/24 in the span; fixed-pinned gives
+    # -wL^2/8 at the fixed end; pinned-pinned gives wL^2/8 in the span.
     g, q, L = 6.5, 2.0, 6.0
     a = analyse(one_strip("[6000]", "monolithic", "monolithic"))
+    assert a.variants == (
+        "A fixed, B fixed",
+        "A fixed, B pinned",
+        "A pinned, B fixed",
+        "A pinned, B pinned",
+    )
     n = n_610b(g, q)
     (span,) = a.uls.span_summaries()
-    assert span.m_max_knm == pytest.approx(n * L**2 / 24, rel=1e-9)
+    assert span.m_max_knm == pytest.approx(n * L**2 / 8, rel=1e-9)
+    assert span.governing.label == "6.10b, Q on span 1 (A pinned, B pinned)"
     for s in a.uls.support_summaries():
-        assert s.m_min_knm == pytest.approx(-n * L**2 / 12, rel=1e-9)
+        assert s.m_min_knm == pytest.approx(-n * L**2 / 8, rel=1e-9)
+    assert a.uls.model_of("A fixed, B fixed").restraints == (Restraint.FIXED,) * 2
+    assert a.uls.model_of("A pinned, B pinned").restraints == (Restraint.PINNED,) * 2
+    mid = a.uls.stations.find(0, 3000.0)
+    m_fixed, _ = a.uls.arrangement_values(
+        dataclasses.replace(span.governing, variant="A fixed, B fixed"), np.array([mid])
+    )
+    assert m_fixed[0] == pytest.approx(n * L**2 / 24, rel=1e-9)
+    ends, _ = a.uls.arrangement_values(
+        dataclasses.replace(span.governing, variant="A fixed, B fixed"),
+        np.array([a.uls.stations.find(0, 0.0)]),
+    )
+    assert ends[0] == pytest.approx(-n * L**2 / 12, rel=1e-9)
 
 
 def test_propped_cantilever_span() -> None:
+    # Monolithic A, pinned B: enveloped propped (9wL^2/128 at 3L/8 from the prop, -wL^2/8 at
+    # A) and simply supported (wL^2/8 at L/2).
     g, q, L = 6.5, 2.0, 5.0
     a = analyse(one_strip("[5000]", "monolithic", "pinned"))
+    assert a.variants == ("end A fixed", "end A pinned")
+    assert a.uls.variants == a.sls_quasi_permanent.variants == a.variants
     n = n_610b(g, q)
     (span,) = a.uls.span_summaries()
-    assert span.m_max_knm == pytest.approx(9 * n * L**2 / 128, rel=1e-9)
-    assert span.x_mm == pytest.approx(5000 * 5 / 8, abs=0.5)  # 3L/8 from the prop
+    assert span.m_max_knm == pytest.approx(n * L**2 / 8, rel=1e-9)
+    assert span.x_mm == pytest.approx(2500.0, abs=1e-6)
+    assert span.governing.label == "6.10b, Q on span 1 (end A pinned)"
     fixed = a.uls.support_summaries()[0]
     assert fixed.m_min_knm == pytest.approx(-n * L**2 / 8, rel=1e-9)
+    assert fixed.governing_m_min.label == "6.10b, Q on span 1 (end A fixed)"
+    # The fixed idealisation of the same arrangement is the propped cantilever of the beam
+    # tables, M(x) = -wL^2/8 + 5wLx/8 - wx^2/2 from the fixed end (peak 9wL^2/128 at 5L/8).
+    m_prop, _ = a.uls.arrangement_values(dataclasses.replace(span.governing, variant="end A fixed"))
+    x = a.uls.stations.x_mm / 1000.0
+    np.testing.assert_allclose(
+        m_prop, -n * L**2 / 8 + 5 * n * L * x / 8 - n * x**2 / 2, atol=1e-9 * n * L**2
+    )
+    assert m_prop.max() <= 9 * n * L**2 / 128 + 1e-9
+    # Quasi-permanent G + psi_2 Q: simply supported wL^2/8 in the span, -wL^2/8 at A.
+    w_qp = g + 0.3 * q
+    (qp,) = a.sls_quasi_permanent.span_summaries()
+    assert qp.m_max_knm == pytest.approx(w_qp * L**2 / 8, rel=1e-9)
+    assert a.sls_quasi_permanent.node_m_min_knm[0] == pytest.approx(-w_qp * L**2 / 8, rel=1e-9)
+
+
+def test_pinned_ends_have_one_model() -> None:
+    a = analyse(one_strip("[5000]", "pinned", "pinned"))
+    assert a.variants == () and a.uls.variants == ("",)
+    assert "(" not in a.uls.span_summaries()[0].governing.label
+
+
+def test_lone_cantilever_root_stays_fixed() -> None:
+    # The only support of a cantilever cannot be released (statics: it carries the root
+    # moment -w a^2 / 2).
+    a = analyse(one_strip("[]", "monolithic", "{cantilever_mm: 1500}"))
+    assert a.variants == ()
+    (root,) = a.uls.support_summaries()
+    assert root.m_min_knm == pytest.approx(-n_610b(6.5, 2.0) * 1.5**2 / 2, rel=1e-9)
 
 
 @pytest.mark.parametrize("percent", [0, 15])
@@ -284,27 +345,45 @@ def test_corridor_strip_all_subsets_against_anastruct() -> None:
 def test_balcony_strip_uk_arrangements_against_anastruct() -> None:
     project = load_project(SAMPLE)
     a = analyse_strip(project, project.strips[0])
+    # The monolithic end A is enveloped fixed and pinned (module docstring).
+    assert a.variants == ("end A fixed", "end A pinned")
     # Oracle nodes: the model nodes plus the partition (9800 + 2550) and parapet (19500 + 1450).
     nodes = [0.0, 4.2, 9.8, 12.35, 14.9, 19.5, 20.95, 21.0]
-    restraints = {
-        0: Restraint.FIXED,
-        1: Restraint.PINNED,
-        2: Restraint.PINNED,
-        4: Restraint.PINNED,
-        5: Restraint.PINNED,
-    }
     elem_seg = [0, 1, 2, 2, 3, 4, 4]
     g_seg = [7.125, 7.125, 7.125, 7.125, 6.825]
     q_seg = [1.5, 1.5, 1.5, 1.5, 2.5]
     # UK NA to EN 1992-1-1 5.1.3(1): all segments loaded, or alternate segments loaded.
     sets = [(0, 1, 2, 3, 4), (0, 2, 4), (1, 3)]
     moments, reactions = [], []
-    for (gg, gq), loaded in itertools.product(((G_SUP, G_Q * 0.7), (XI * G_SUP, G_Q)), sets):
+    sagging_1 = {Restraint.FIXED: 0.0, Restraint.PINNED: 0.0}
+    for end_a, (gg, gq), loaded in itertools.product(
+        (Restraint.FIXED, Restraint.PINNED), ((G_SUP, G_Q * 0.7), (XI * G_SUP, G_Q)), sets
+    ):
+        restraints = {
+            0: end_a,
+            1: Restraint.PINNED,
+            2: Restraint.PINNED,
+            4: Restraint.PINNED,
+            5: Restraint.PINNED,
+        }
         udl = [gg * g_seg[s] + (gq * q_seg[s] if s in loaded else 0.0) for s in elem_seg]
         m, r = _anastruct(nodes, restraints, udl, {3: gg * 4.5, 6: gg * 1.0})
         moments.append(m[[0, 1, 2, 4, 5]])
         reactions.append(r[[0, 1, 2, 4, 5]])
+        # Span 1 (4.2 m, UDL only) as a simple beam between the oracle's end moments: shear
+        # at A = wL/2 + (M_B - M_A)/L, peak sagging M_A + V_A^2 / (2w) (statics).
+        w1, span = udl[0], 4.2
+        v_a = w1 * span / 2 + (m[1] - m[0]) / span
+        sagging_1[end_a] = max(sagging_1[end_a], m[0] + v_a**2 / (2 * w1))
     moments, reactions = np.array(moments), np.array(reactions)
     sup = a.uls.support_summaries()
     assert [s.m_min_knm for s in sup] == pytest.approx(list(moments.min(axis=0)), abs=1e-3)
     assert [s.reaction_max_kn for s in sup] == pytest.approx(list(reactions.max(axis=0)), rel=1e-5)
+    # Support A hogs only in the fixed idealisation.
+    assert sup[0].governing_m_min.variant == "end A fixed"
+    # Span 1 sags about twice as much with A pinned (14.5 against 7.5 kNm/m) and is designed
+    # for it.
+    span_1 = a.uls.span_summaries()[0]
+    assert sagging_1[Restraint.PINNED] > 1.8 * sagging_1[Restraint.FIXED]
+    assert span_1.m_max_knm == pytest.approx(sagging_1[Restraint.PINNED], abs=1e-3)
+    assert span_1.governing.variant == "end A pinned"
