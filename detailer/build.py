@@ -8,6 +8,7 @@ run leaves earlier outputs untouched.
 from __future__ import annotations
 
 import dataclasses
+import hashlib
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -62,8 +63,17 @@ def detail_with_marks(project: Project, code: DesignCode | None = None) -> Proje
     return ProjectDetail(project=project, strips=strips)
 
 
-def build_outputs(project: Project, code: DesignCode | None = None) -> BuildResult:
-    """The output files of a project, by file name (pure)."""
+def build_outputs(
+    project: Project,
+    code: DesignCode | None = None,
+    *,
+    input_name: str = "",
+    input_sha256: str = "",
+) -> BuildResult:
+    """The output files of a project, by file name (pure). ``input_name``/``input_sha256``
+    identify the project file in the calculation report."""
+    from detailer.report import render_report, report_file_name
+
     detail = detail_with_marks(project, code)
     schedule = schedule_for_project(detail, members={s.id: s.members for s in project.strips})
     record = build_record(detail)
@@ -71,6 +81,12 @@ def build_outputs(project: Project, code: DesignCode | None = None) -> BuildResu
     files = (
         (f"{pid}-schedule.csv", render_schedule_csv(schedule, project)),
         (f"{pid}-record.json", render_record_json(record)),
+        (
+            report_file_name(pid),
+            render_report(
+                detail, record, schedule, input_name=input_name, input_sha256=input_sha256
+            ),
+        ),
     )
     return BuildResult(detail=detail, schedule=schedule, files=files)
 
@@ -83,7 +99,8 @@ def output_dir(project: Project, out: str | Path | None) -> Path:
 def build(project_path: str | Path, out: str | Path | None = None) -> tuple[BuildResult, Path]:
     """Read, design, detail and write; returns the result and the folder written to."""
     project = load_project(project_path)
-    result = build_outputs(project)
+    digest = hashlib.sha256(Path(project_path).read_bytes()).hexdigest()
+    result = build_outputs(project, input_name=Path(project_path).name, input_sha256=digest)
     folder = output_dir(project, out)
     write_outputs({folder / name: data for name, data in result.files})
     return result, folder

@@ -488,7 +488,9 @@ def build_record(detail: ProjectDetail, *, withdrawn_marks: Sequence[str] = ()) 
     m = p.materials
     bar_sets = [s.bar_sets for s in detail.strips]
     all_sets = [b for s in detail.strips for b in s.bar_sets]
-    summary = summarise(schedule_rows(all_sets, revision=p.revision))
+    summary = summarise(
+        schedule_rows(all_sets, revision=p.revision, members={s.id: s.members for s in p.strips})
+    )
     return ProjectRecord(
         schema_version=SCHEMA_VERSION,
         project_id=p.id,
