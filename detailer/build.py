@@ -72,23 +72,43 @@ def build_outputs(
 ) -> BuildResult:
     """The output files of a project, by file name (pure). ``input_name``/``input_sha256``
     identify the project file in the calculation report."""
+    from detailer.audit import audit_layout, parse_schedule_csv
+    from detailer.io.dxf_preview import render_png
+    from detailer.io.dxf_readback import read_layout
+    from detailer.io.dxf_writer import layout_name, write_layout
     from detailer.report import render_report, report_file_name
 
     detail = detail_with_marks(project, code)
     schedule = schedule_for_project(detail, members={s.id: s.members for s in project.strips})
     record = build_record(detail)
     pid = project.id
-    files = (
-        (f"{pid}-schedule.csv", render_schedule_csv(schedule, project)),
+    csv_bytes = render_schedule_csv(schedule, project)
+    dxf_bytes = write_layout(detail)
+    # The drawing must agree with the schedule it is issued with: audit our own outputs.
+    findings = audit_layout(
+        read_layout(dxf_bytes), parse_schedule_csv(csv_bytes.decode("utf-8"), f"{pid}-schedule.csv")
+    )
+    if findings:
+        raise DesignError(
+            f"project {pid}: the drawing disagrees with the schedule ({findings[0]}); this is a "
+            "fault in slabwright, please report it with the project file"
+        )
+    files = [
+        (f"{pid}-schedule.csv", csv_bytes),
         (f"{pid}-record.json", render_record_json(record)),
+        (f"{pid}-layout.dxf", dxf_bytes),
+    ]
+    for sd in detail.strips:
+        files.append((f"{pid}-{sd.strip.id}.png", render_png(dxf_bytes, layout_name(sd.strip.id))))
+    files.append(
         (
             report_file_name(pid),
             render_report(
                 detail, record, schedule, input_name=input_name, input_sha256=input_sha256
             ),
-        ),
+        )
     )
-    return BuildResult(detail=detail, schedule=schedule, files=files)
+    return BuildResult(detail=detail, schedule=schedule, files=tuple(files))
 
 
 def output_dir(project: Project, out: str | Path | None) -> Path:

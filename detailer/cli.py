@@ -59,6 +59,17 @@ def _parser() -> argparse.ArgumentParser:
     )
     build.add_argument("project", metavar="PROJECT.yaml", help="project file")
     build.add_argument("--out", metavar="DIR", help="output folder (default output/<project-id>/)")
+    audit = sub.add_parser(
+        "audit",
+        help="compare a layout drawing (perhaps edited since) with a bar schedule",
+        description=(
+            "Read the bar marks, callouts and bar geometry back from a layout DXF and list every "
+            "disagreement with the schedule CSV. Exit 0 when they agree, 1 when not."
+        ),
+        epilog=CAUTION,
+    )
+    audit.add_argument("drawing", metavar="DRAWING.dxf", help="layout drawing")
+    audit.add_argument("schedule", metavar="SCHEDULE.csv", help="bar-bending schedule")
     return p
 
 
@@ -72,6 +83,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         return _check(args.project, sys.stdout, sys.stderr)
     if args.command == "build":
         return _build(args.project, args.out, sys.stdout, sys.stderr)
+    if args.command == "audit":
+        return _audit(args.drawing, args.schedule, sys.stdout, sys.stderr)
     _parser().print_help(sys.stdout)
     print(CAUTION, file=sys.stdout)
     return EXIT_OK
@@ -104,6 +117,24 @@ def _check(path: str, out: TextIO, err: TextIO) -> int:
         designs.append(design_lines(detail, project.materials.bar_type))
     out.write(format_check(path, project, analyses, designs))
     return EXIT_DESIGN_FAILED if failures else EXIT_OK
+
+
+def _audit(drawing: str, schedule: str, out: TextIO, err: TextIO) -> int:
+    from detailer.audit import run_audit
+
+    try:
+        report = run_audit(drawing, schedule)
+    except InputError as exc:
+        print(str(exc), file=err)
+        return EXIT_INPUT_ERROR
+    for finding in report.findings:
+        out.write(f"{finding}\n")
+    if report.ok:
+        out.write(f"OK: {drawing} agrees with {schedule}\n")
+    else:
+        out.write(f"{len(report.findings)} disagreement(s) between {drawing} and {schedule}\n")
+    out.write(CAUTION + "\n")
+    return EXIT_OK if report.ok else EXIT_DESIGN_FAILED
 
 
 def _build(path: str, out_dir: str | None, out: TextIO, err: TextIO) -> int:

@@ -34,6 +34,7 @@ __all__ = [
     "support_faces",
 ]
 
+import itertools
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
@@ -102,7 +103,6 @@ class Line:
     layer: str
     start: tuple[float, float]
     end: tuple[float, float]
-    ltscale: float = 1.0
 
 
 @dataclass(frozen=True, slots=True)
@@ -370,7 +370,7 @@ def developed_length_mm(vertices: Sequence[Sequence[float]], closed: bool = Fals
     if closed and pts:
         pts.append(pts[0])
     total = 0.0
-    for a, b in zip(pts, pts[1:]):
+    for a, b in itertools.pairwise(pts):
         chord = math.hypot(b[0] - a[0], b[1] - a[1])
         bulge = a[2] if len(a) > 2 else 0.0
         if abs(bulge) < 1e-12 or chord == 0:

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 __all__ = ["StripPlan", "View", "bar_fields", "plan_strip"]
 
+import itertools
 from dataclasses import dataclass, field
 
 from detailer.curtailment import StripGeometry
@@ -44,6 +45,8 @@ from detailer.model import EndKind
 #: Nominal depth of a downstand beam or wall drawn below the slab, as a multiple of h.
 SUPPORT_DEPTH_OVER_H = 2.5
 PAPER = st.PaperSizes()
+#: Where along a bar its callout's leader may start, in order of preference.
+_FRACTIONS = (0.4, 0.55, 0.25, 0.7, 0.15, 0.85, 0.32, 0.47, 0.62, 0.77, 0.1, 0.9, 0.05, 0.95)
 
 
 @dataclass(slots=True)
@@ -58,6 +61,7 @@ class View:
     hatches: list[Hatch] = field(default_factory=list)
     dims: list[Dim] = field(default_factory=list)
     extra_boxes: list[Box] = field(default_factory=list)
+    crowded: int = 0  # callouts the packer could not place without a leader crossing a text
 
     def box(self) -> Box:
         boxes = list(self.extra_boxes)
@@ -180,9 +184,14 @@ def _section(sd: StripDetail, s: int, v: View) -> float:
     h = strip.thickness_mm
     depth = SUPPORT_DEPTH_OVER_H * h
     left, right = geom.slab_left_mm, geom.slab_right_mm
+    outline = ((left, 0, 0), (right, 0, 0), (right, h, 0), (left, h, 0))
     v.polys.append(
         Poly(
-            st.OUTLINE_LAYER.name, ((left, 0, 0), (right, 0, 0), (right, h, 0), (left, h, 0)), True
+            st.OUTLINE_LAYER.name,
+            outline,
+            True,
+            0.0,
+            (("kind", "outline"), ("view", "section"), ("strip", strip.id)),
         )
     )
     _supports(sd, depth, s, v)
@@ -200,7 +209,8 @@ def _section(sd: StripDetail, s: int, v: View) -> float:
             lay = st.BARS_DISTRIBUTION_LAYER.name
             for x in xs:
                 v.dots.append(Dot(lay, x, y, dia, bar_fields(b, "section")))
-            cands = [min(xs, key=lambda x, f=f: abs(x - _at(b, f))) for f in (0.7, 0.3, 0.85, 0.15)]
+            pref = _at(b, 0.7)
+            cands = sorted(xs, key=lambda x: (abs(x - pref), x))[:12]
             anchors.append(_label(b, "top" if top else "bottom", [(x, y) for x in cands], s))
             continue
         base = levels.get(b.layer, levels["T1" if top else "B1"])
@@ -208,10 +218,11 @@ def _section(sd: StripDetail, s: int, v: View) -> float:
         free_right = strip.has_right_cantilever and abs(b.x_end_mm - geom.bar_right_mm) <= 1.0
         corners = centreline_corners(b, geom, y, free_edge_right=free_right)
         verts = fillet(corners, bend_radius_mm(b))
-        v.polys.append(Poly(st.bar_layer(b.layer, False).name, verts, False, 0.0,
-                            bar_fields(b, "section")))  # fmt: skip
+        v.polys.append(
+            Poly(st.bar_layer(b.layer, False).name, verts, False, 0.0, bar_fields(b, "section"))
+        )
         run = _main_run(corners, y)
-        cands = [(run[0] + f * (run[1] - run[0]), y) for f in (0.4, 0.55, 0.25, 0.7, 0.15, 0.85)]
+        cands = [(run[0] + f * (run[1] - run[0]), y) for f in _FRACTIONS]
         anchors.append(_label(b, "top" if top else "bottom", cands, s))
 
     # dimensions next to the concrete, labels beyond them, spans and grid outermost
@@ -221,8 +232,18 @@ def _section(sd: StripDetail, s: int, v: View) -> float:
     for packed, y_from in ((top_dims, h), (bot_dims, 0.0)):
         for pd in packed.dims:
             t = pd.target
-            v.dims.append(Dim((t.x_from_mm, y_from), (t.x_to_mm, y_from), (t.x_from_mm, pd.y),
-                              0.0, s, pd.text_at, _dim_fields(strip.id, t.kind, t.ref)))  # fmt: skip
+            xa, xb = sorted((t.x_from_mm, t.x_to_mm))  # left to right: text above the line
+            v.dims.append(
+                Dim(
+                    (xa, y_from),
+                    (xb, y_from),
+                    (xa, pd.y),
+                    0.0,
+                    s,
+                    pd.text_at,
+                    _dim_fields(strip.id, t.kind, t.ref),
+                )
+            )
     top_labels = pack_labels(
         [a for a in anchors if a.face == "top"], top_dims.edge + 5.0 * s, +1, s, top_dims, PAPER
     )
@@ -230,6 +251,7 @@ def _section(sd: StripDetail, s: int, v: View) -> float:
         [a for a in anchors if a.face == "bottom"], bot_dims.edge - 5.0 * s, -1, s, bot_dims, PAPER
     )
     for packed in (top_labels, bot_labels):
+        v.crowded += packed.crowded
         v.polys.extend(packed.leaders)
         v.dots.extend(packed.ticks)
         v.texts.extend(packed.texts)
@@ -245,7 +267,7 @@ def _section(sd: StripDetail, s: int, v: View) -> float:
             title_y,
             PAPER.title_text_mm * s,
             "TOP_LEFT",
-        )  # fmt: skip
+        )
     )
     return title_y - PAPER.title_text_mm * s
 
@@ -258,7 +280,7 @@ def _main_run(corners, y: float) -> tuple[float, float]:
     """x range of the longest straight run of a bar at level y (where its label goes)."""
     best = (corners[0][0], corners[-1][0])
     best_len = -1.0
-    for (x0, y0), (x1, y1) in zip(corners, corners[1:]):
+    for (x0, y0), (x1, y1) in itertools.pairwise(corners):
         if abs(y0 - y) < 1e-6 and abs(y1 - y) < 1e-6 and abs(x1 - x0) > best_len:
             best, best_len = (min(x0, x1), max(x0, x1)), abs(x1 - x0)
     return best
@@ -266,8 +288,9 @@ def _main_run(corners, y: float) -> tuple[float, float]:
 
 def _track_step(strip, sd: StripDetail, top: bool, s: int) -> float:
     """Drawing offset between overlapping sets of one layer: visible on paper, inside the slab."""
-    phi = max((b.phi_mm for b in sd.bar_sets if b.layer.startswith("T" if top else "B")),
-              default=10)  # fmt: skip
+    phi = max(
+        (b.phi_mm for b in sd.bar_sets if b.layer.startswith("T" if top else "B")), default=10
+    )
     cover = strip.cover_top_mm if top else strip.cover_bottom_mm
     room = max(0.25 * (strip.thickness_mm / 2 - cover - phi), 0.0)
     return min(max(float(phi), 0.5 * s), room)
@@ -301,8 +324,13 @@ def _supports(sd: StripDetail, depth: float, s: int, v: View) -> None:
         lay = st.SUPPORT_LAYER.name
         if sup.width_mm <= 0:  # knife edge: a small triangle under the soffit
             t = 3.0 * s
-            v.polys.append(Poly(lay, ((sup.x_mm, 0, 0), (sup.x_mm - t, -1.5 * t, 0),
-                                      (sup.x_mm + t, -1.5 * t, 0)), True))  # fmt: skip
+            v.polys.append(
+                Poly(
+                    lay,
+                    ((sup.x_mm, 0, 0), (sup.x_mm - t, -1.5 * t, 0), (sup.x_mm + t, -1.5 * t, 0)),
+                    True,
+                )
+            )
             continue
         x0, x1 = sup.x_mm - sup.width_mm / 2, sup.x_mm + sup.width_mm / 2
         rect = ((x0, 0.0), (x1, 0.0), (x1, -depth), (x0, -depth))
@@ -312,9 +340,19 @@ def _supports(sd: StripDetail, depth: float, s: int, v: View) -> None:
         else:  # a downstand beam, drawn with a break line at its nominal depth
             zig = min(0.25 * sup.width_mm, 2.0 * s)
             xm = sup.x_mm
-            v.polys.append(Poly(lay, ((x0, -depth - zig, 0), (xm - zig, -depth - zig, 0),
-                                      (xm, -depth + zig, 0), (xm, -depth - 2 * zig, 0),
-                                      (xm + zig, -depth - zig, 0), (x1, -depth - zig, 0))))  # fmt: skip
+            v.polys.append(
+                Poly(
+                    lay,
+                    (
+                        (x0, -depth - zig, 0),
+                        (xm - zig, -depth - zig, 0),
+                        (xm, -depth + zig, 0),
+                        (xm, -depth - 2 * zig, 0),
+                        (xm + zig, -depth - zig, 0),
+                        (x1, -depth - zig, 0),
+                    ),
+                )
+            )
 
 
 def _grid(sd: StripDetail, y_span: float, depth: float, s: int, v: View) -> None:
@@ -331,7 +369,7 @@ def _grid(sd: StripDetail, y_span: float, depth: float, s: int, v: View) -> None
                 s,
                 None,
                 _dim_fields(strip.id, "span", t.ref),
-            )  # fmt: skip
+            )
         )
     r = PAPER.grid_bubble_radius_mm * s
     yc = y_span + 6.0 * s + r
@@ -340,15 +378,17 @@ def _grid(sd: StripDetail, y_span: float, depth: float, s: int, v: View) -> None
         x = sup.x_mm
         v.circles.append(Circle(g, x, yc, r))
         v.texts.append(Text(g, sup.label, x, yc, PAPER.title_text_mm * s, "MIDDLE_CENTER"))
-        v.lines.append(Line(g, (x, yc - r), (x, y_span - 5.0 * s), float(s)))
-        v.lines.append(Line(g, (x, h + 2.0 * s), (x, -depth - 4.0 * s), float(s)))
+        v.lines.append(Line(g, (x, yc - r), (x, y_span - 5.0 * s)))
+        v.lines.append(Line(g, (x, h + 2.0 * s), (x, -depth - 4.0 * s)))
 
 
 def _cut_marks(sd: StripDetail, x: float, s: int, v: View) -> None:
     """Marks of cross-section 1-1 on the longitudinal section: short thick lines and numbers."""
     h = sd.strip.thickness_mm
     lay = st.LABEL_LAYER.name
-    for y0, y1, ty, align in ((h + 0.5 * s, h + 3.5 * s, h + 4.0 * s, "BOTTOM_CENTER"),
-                              (-0.5 * s, -3.5 * s, -4.0 * s, "TOP_CENTER")):  # fmt: skip
+    for y0, y1, ty, align in (
+        (h + 0.5 * s, h + 3.5 * s, h + 4.0 * s, "BOTTOM_CENTER"),
+        (-0.5 * s, -3.5 * s, -4.0 * s, "TOP_CENTER"),
+    ):
         v.polys.append(Poly(lay, ((x, y0, 0), (x, y1, 0)), False, 0.5 * s))
         v.texts.append(Text(lay, "1", x + 1.5 * s, ty, PAPER.small_text_mm * s, align))

@@ -73,7 +73,9 @@ def pack_dimensions(
             text_c = xa - 1.5 * s - tw / 2
             span, beside = (xa - 3.0 * s - tw, xb), True
         row = _first_free(rows, span, 2.0 * s)
-        placed.append((t, row, (text_c, 0.0) if beside else None, (text_c - tw / 2, text_c + tw / 2)))
+        placed.append(
+            (t, row, (text_c, 0.0) if beside else None, (text_c - tw / 2, text_c + tw / 2))
+        )
     out = []
     spans = []
     for t, row, at, tspan in placed:
@@ -88,7 +90,9 @@ def pack_dimensions(
     return PackedDims(tuple(out), edge, tuple(spans))
 
 
-def _first_free(rows: list[list[tuple[float, float]]], span: tuple[float, float], gap: float) -> int:
+def _first_free(
+    rows: list[list[tuple[float, float]]], span: tuple[float, float], gap: float
+) -> int:
     for i, row in enumerate(rows):
         if all(span[1] + gap <= a or b + gap <= span[0] for a, b in row):
             row.append(span)
@@ -115,6 +119,7 @@ class PackedLabels:
     ticks: list[Dot] = field(default_factory=list)
     texts: list[Text] = field(default_factory=list)
     edge: float = 0.0
+    crowded: int = 0  # callouts that could not be placed without breaking a rule
 
 
 def pack_labels(
@@ -125,51 +130,129 @@ def pack_labels(
     dims: PackedDims,
     paper: st.PaperSizes,
 ) -> PackedLabels:
-    """Place callouts in rows from ``y_base`` outwards; leaders drop to their anchors."""
-    pitch = 6.0 * s
-    land, gap, clear = 2.0 * s, 1.0 * s, 1.0 * s
-    rows: dict[int, list[tuple[float, float]]] = {}
-    leaders: list[tuple[float, int]] = []  # (x, row)
-    result = PackedLabels(edge=y_base)
-    obstacles = [(a - clear, b + clear) for a, b in dims.text_spans]
+    """Place callouts in rows from ``y_base`` outwards; leaders drop to their anchors.
+
+    Callouts with the fewest places to go (short bars) are placed first; when one cannot be
+    placed cleanly it is moved to the front and the rows are packed again (a few times).
+    """
+
+    def reach(i: int) -> float:
+        xs = [c[0] for c in labels[i].candidates]
+        return max(xs) - min(xs)
+
+    order = sorted(
+        range(len(labels)), key=lambda i: (reach(i), labels[i].candidates[0][0], labels[i].text)
+    )
+    best: tuple[list, list[int]] | None = None
+    for _ in range(len(labels) + 1):
+        placed, failed = _place(labels, order, s, dims)
+        if best is None or len(failed) < len(best[1]):
+            best = (placed, failed)
+        if not failed:
+            break
+        order.remove(failed[0])
+        order.insert(0, failed[0])
+    assert best is not None
+    placed, failed = best
+    pitch = ROW_PITCH_MM * s
+    land, gap = LANDING_MM * s, GAP_MM * s
     lay = st.LABEL_LAYER.name
-    max_row = -1
-    for lab in sorted(labels, key=lambda lab: (lab.candidates[0][0], lab.text)):
-        choice = None
-        for row in range(MAX_ROWS):
-            for x, y in lab.candidates:
-                span = (x - clear, x + land + gap + lab.width + clear)
-                if _fits(span, x, row, rows, leaders, obstacles, 1.5 * s):
-                    choice = (row, x, y, span)
-                    break
-            if choice:
-                break
-        if choice is None:  # crowded beyond reason: stack it on a new outermost row
-            x, y = lab.candidates[0]
-            choice = (max(rows, default=-1) + 1, x, y, (x, x + land + gap + lab.width))
-        row, x, y, span = choice
-        rows.setdefault(row, []).append(span)
-        leaders.append((x, row))
-        max_row = max(max_row, row)
+    result = PackedLabels(edge=y_base, crowded=len(failed))
+    for i, row, x, y, right in placed:
+        lab = labels[i]
         yr = y_base + direction * row * pitch
-        result.leaders.append(Poly(lay, ((x, y, 0.0), (x, yr, 0.0), (x + land, yr, 0.0))))
+        end = x + land if right else x - land
+        result.leaders.append(Poly(lay, ((x, y, 0.0), (x, yr, 0.0), (end, yr, 0.0))))
         result.ticks.append(Dot(lay, x, y, 0.8 * s))
-        result.texts.append(Text(lay, lab.text, x + land + gap, yr, lab.height, "MIDDLE_LEFT",
-                                 lab.xdata))  # fmt: skip
-    if max_row >= 0:
-        result.edge = y_base + direction * (max_row * pitch + 0.5 * paper.text_mm * s + s)
+        tx = end + gap if right else end - gap
+        result.texts.append(
+            Text(
+                lay,
+                lab.text,
+                tx,
+                yr,
+                lab.height,
+                "MIDDLE_LEFT" if right else "MIDDLE_RIGHT",
+                lab.xdata,
+            )
+        )
+    if placed:
+        top = max(p[1] for p in placed)
+        result.edge = y_base + direction * (top * pitch + 0.5 * paper.text_mm * s + s)
     return result
 
 
+ROW_PITCH_MM = 6.0
+LANDING_MM = 2.0
+GAP_MM = 1.0
+
+
+def _place(labels: Sequence[LabelSpec], order: Sequence[int], s: int, dims: PackedDims):
+    """One greedy packing in ``order``: [(index, row, x, y, text_right)], [indices that broke
+    a rule]."""
+    land, gap, clear = LANDING_MM * s, GAP_MM * s, 1.0 * s
+    rows: dict[int, list[tuple[float, float]]] = {}
+    leaders: list[tuple[float, int]] = []  # (x, row)
+    obstacles = [(a - clear, b + clear) for a, b in dims.text_spans]
+    placed, failed = [], []
+
+    def span(lab: LabelSpec, x: float, right: bool) -> tuple[float, float]:
+        if right:
+            return (x - clear, x + land + gap + lab.width + clear)
+        return (x - land - gap - lab.width - clear, x + clear)
+
+    for i in order:
+        lab = labels[i]
+        choice = None
+        for row in range(MAX_ROWS):
+            for x, y in lab.candidates:
+                for right in (True, False):
+                    sp = span(lab, x, right)
+                    if _fits(sp, x, row, rows, leaders, obstacles, 1.5 * s):
+                        choice = (row, x, y, right, sp)
+                        break
+                if choice:
+                    break
+            if choice:
+                break
+        if choice is None:  # crowded beyond reason: a new outer row, fewest clashes
+            row = max(rows, default=-1) + 1
+            x, y = min(
+                lab.candidates,
+                key=lambda c: _clashes(
+                    span(lab, c[0], True), c[0], row, rows, leaders, obstacles, 1.5 * s
+                ),
+            )
+            choice = (row, x, y, True, span(lab, x, True))
+            failed.append(i)
+        row, x, y, right, sp = choice
+        rows.setdefault(row, []).append(sp)
+        leaders.append((x, row))
+        placed.append((i, row, x, y, right))
+    return placed, failed
+
+
 def _fits(span, x, row, rows, leaders, obstacles, leader_gap) -> bool:
-    if any(not (span[1] <= a or b <= span[0]) for a, b in rows.get(row, ())):
-        return False
-    for q in range(row):  # the leader crosses every nearer row
-        if any(a <= x <= b for a, b in rows.get(q, ())):
+    """True when a callout at ``x`` in ``row`` breaks no rule (see :func:`_clashes`)."""
+    for a, b in rows.get(row, ()):
+        if not (span[1] <= a or b <= span[0]):
             return False
+    for q in range(row):
+        for a, b in rows.get(q, ()):
+            if a <= x <= b:
+                return False
     for lx, lrow in leaders:
-        if lrow > row and span[0] <= lx <= span[1]:
-            return False
-        if abs(lx - x) < leader_gap:
+        if (lrow > row and span[0] <= lx <= span[1]) or abs(lx - x) < leader_gap:
             return False
     return not any(a <= x <= b for a, b in obstacles)
+
+
+def _clashes(span, x, row, rows, leaders, obstacles, leader_gap) -> int:
+    """How many rules a callout at ``x`` in ``row`` breaks (0: it may go there)."""
+    n = sum(1 for a, b in rows.get(row, ()) if not (span[1] <= a or b <= span[0]))
+    for q in range(row):  # the leader crosses every nearer row
+        n += sum(1 for a, b in rows.get(q, ()) if a <= x <= b)
+    for lx, lrow in leaders:
+        n += lrow > row and span[0] <= lx <= span[1]
+        n += abs(lx - x) < leader_gap
+    return n + sum(1 for a, b in obstacles if a <= x <= b)

@@ -12,6 +12,7 @@ from __future__ import annotations
 __all__ = ["render_png", "write_preview_files"]
 
 import io
+import random
 from pathlib import Path
 
 import ezdxf
@@ -65,15 +66,42 @@ def render_png(dxf: bytes | Drawing, layout_name: str, *, dpi: int = 100) -> byt
     FigureCanvasAgg(fig)
     ax = fig.add_axes((0.0, 0.0, 1.0, 1.0))
     config = Configuration(background_policy=BackgroundPolicy.WHITE)
-    Frontend(RenderContext(doc), MatplotlibBackend(ax), config=config).draw_layout(
-        layout, finalize=True
-    )
+    backend = MatplotlibBackend(ax, adjust_figure=False)
+    ctx = RenderContext(doc)
+    main_scale = _main_viewport_scale(layout)
+    if main_scale:
+        # The add-on scales linetype patterns of model space seen through a viewport by the
+        # viewport scale once more (dashes 1:50 come out 50 times too long): undo that for
+        # the sheet's main viewport, so dashes show at their paper length as in CAD.
+        ctx.linetype_scale = ctx.linetype_scale * main_scale
+    # ezdxf jiggles hatch pattern lines by a random offset: seed it so previews are
+    # byte-stable, and give the caller's random state back afterwards.
+    state = random.getstate()
+    random.seed(0)
+    try:
+        Frontend(ctx, backend, config=config).draw_layout(layout, finalize=True)
+    finally:
+        random.setstate(state)
     if layout.name != "Model":  # frame the whole sheet, not just what is drawn on it
         ax.set_xlim(0.0, width_mm)
         ax.set_ylim(0.0, height_mm)
+        ax.set_aspect("equal")
+    ax.set_axis_off()
     buffer = io.BytesIO()
     fig.savefig(buffer, format="png", dpi=dpi, facecolor="white", metadata={"Software": None})
     return buffer.getvalue()
+
+
+def _main_viewport_scale(layout) -> float:
+    """Paper per model unit of the largest viewport on a paper-space layout (0 if none)."""
+    best, scale = 0.0, 0.0
+    for vp in layout.query("VIEWPORT"):
+        w, h, vh = float(vp.dxf.width), float(vp.dxf.height), float(vp.dxf.view_height)
+        if vp.dxf.id == 1 or vh <= 0:  # id 1 is the paper-space view itself
+            continue
+        if w * h > best:
+            best, scale = w * h, h / vh
+    return scale
 
 
 def _paper_size(layout) -> tuple[float, float]:

@@ -21,9 +21,11 @@ __all__ = [
     "choose_sheet",
     "general_notes",
     "title_fields",
+    "wrap_notes",
 ]
 
 import math
+import textwrap
 from dataclasses import dataclass
 
 from detailer import CAUTION, __version__
@@ -55,7 +57,7 @@ TITLE_BLOCK_H_MM = 62.0
 DETAIL_MAX_H_MM = 75.0
 NOTE_TEXT_MM = 2.5
 NOTE_LINE_MM = 4.2  # line pitch of the notes
-NOTE_WRAP_CHARS = 68  # characters per line of the notes column (estimate)
+NOTE_WRAP_CHARS = 80  # characters per line of the notes column (DejaVu Sans, 2.5 mm)
 
 
 @dataclass(frozen=True, slots=True)
@@ -85,12 +87,16 @@ def _fits_detail(plan: StripPlan) -> bool:
 
 
 def _main_area(sheet: Sheet) -> Box:
-    return Box(FRAME_LEFT_MM + 5.0, FRAME_MM + 5.0,
-               sheet.width_mm - FRAME_MM - COLUMN_MM - 5.0, sheet.height_mm - FRAME_MM - 5.0)  # fmt: skip
+    return Box(
+        FRAME_LEFT_MM + 5.0,
+        FRAME_MM + 5.0,
+        sheet.width_mm - FRAME_MM - COLUMN_MM - 5.0,
+        sheet.height_mm - FRAME_MM - 5.0,
+    )
 
 
 def notes_lines_count(lines: tuple[str, ...]) -> int:
-    return sum(max(1, math.ceil(len(t) / NOTE_WRAP_CHARS)) for t in lines)
+    return len(wrap_notes(lines))
 
 
 def choose_sheet(project: Project, sd: StripDetail) -> SheetPlan:
@@ -108,8 +114,11 @@ def choose_sheet(project: Project, sd: StripDetail) -> SheetPlan:
         plan = plan_strip(sd, s, detail_scale)
         area = _main_area(sheet)
         column_h = DETAIL_MAX_H_MM + 14.0 + n_notes * NOTE_LINE_MM + TITLE_BLOCK_H_MM
-        if (plan.main_box.width / s <= area.width and plan.main_box.height / s <= area.height
-                and column_h <= sheet.height_mm - 2 * FRAME_MM):  # fmt: skip
+        if (
+            plan.main_box.width / s <= area.width
+            and plan.main_box.height / s <= area.height
+            and column_h <= sheet.height_mm - 2 * FRAME_MM
+        ):
             chosen = (sheet, plan)
             break
     if chosen is None:  # longer than 1:500 on A1 allows: keep 1:500, the viewport crops
@@ -154,39 +163,69 @@ def _mm(value: float) -> str:
 
 
 def general_notes(project: Project, sd: StripDetail) -> tuple[str, ...]:
-    """The general notes of a strip's sheet, one string per note line (before wrapping)."""
+    """The general notes of a strip's sheet, one string per note (before wrapping)."""
     strip = sd.strip
     m = project.materials
-    lines = [
-        "GENERAL NOTES",
-        "1. All dimensions in mm. Do not scale.",
-        f"2. Concrete {m.concrete_class}, exposure class {m.exposure_class}.",
-        f"3. Nominal cover: top {strip.cover_top_mm:g}, bottom {strip.cover_bottom_mm:g}, "
-        f"sides and bar ends {strip.cover_side_mm:g}.",
-        f"4. Reinforcement: type {m.bar_type} to BS 8666 notation, f_yk = {m.f_yk:g} N/mm2, "
-        f"ductility class {m.ductility_class}, to BS 4449; bent to BS 8666.",
-        "5. Callouts read: number, type and size, mark, centres, layer (e.g. 25H12-03-200 B1). "
-        "T1/T2 top outer/inner layer, B1/B2 bottom outer/inner layer.",
-        "6. Curtailment is dimensioned from the face of the nearest support; spans centreline "
-        "to centreline.",
-        "7. Anchorage and lap lengths used (design values, EN 1992-1-1 8.4 and 8.7):",
+    notes = [
+        "All dimensions in mm. Do not scale.",
+        f"Concrete {m.concrete_class}, exposure class {m.exposure_class}.",
+        (
+            f"Nominal cover: top {strip.cover_top_mm:g}, bottom {strip.cover_bottom_mm:g}, "
+            f"sides and bar ends {strip.cover_side_mm:g}."
+        ),
+        (
+            f"Reinforcement: type {m.bar_type} (BS 8666 notation), f_yk = {m.f_yk:g} N/mm2, "
+            f"ductility class {m.ductility_class}, to BS 4449; cut and bent to BS 8666."
+        ),
+        (
+            "Callouts read: number, type and size, mark, centres, layer (e.g. 25H12-03-200 B1). "
+            "T1/T2: top outer/inner layer; B1/B2: bottom outer/inner layer."
+        ),
+        (
+            "Spans are dimensioned centreline to centreline; bar ends from the face of the "
+            "nearest support."
+        ),
+        "Anchorage and lap lengths used (design values, EN 1992-1-1 8.4 and 8.7):",
     ]
-    for a in sd.anchorage:
-        lines.append(
-            f"   {m.bar_type}{a.phi_mm} {a.layer} ({a.bond} bond): l_bd = {_mm(a.l_bd_mm)}, "
-            f"lap l_0 = {_mm(a.l_0_mm)}"
-        )
+    anchorage = [
+        f"    {m.bar_type}{a.phi_mm} {a.layer} ({a.bond} bond): l_bd = {_mm(a.l_bd_mm)}, "
+        f"lap l_0 = {_mm(a.l_0_mm)}"
+        for a in sd.anchorage
+    ]
+    later = []
     if any(b.offset_mm > 0 for b in sd.bar_sets if b.role is BarRole.PRINCIPAL):
-        lines.append("8. Alternate bar groups are drawn slightly apart for clarity; they lie in "
-                     "one layer.")  # fmt: skip
-    lines.append(f"Bar schedule: see the schedule of drawing {project.drawing_ref} "
-                 f"revision {project.revision}.")  # fmt: skip
+        later.append(
+            "Alternate bar groups are drawn slightly apart for clarity; they lie in one layer."
+        )
+    later.append("Overlapping bars of one layer (laps, U-bars) are drawn slightly apart.")
+    later.append(
+        f"Bar schedule: see the schedule of drawing {project.drawing_ref} "
+        f"revision {project.revision}."
+    )
+    lines = ["GENERAL NOTES"]
+    lines += [f"{i}. {t}" for i, t in enumerate(notes, start=1)]
+    lines += anchorage
+    lines += [f"{i}. {t}" for i, t in enumerate(later, start=len(notes) + 1)]
     lines.append(CAUTION)
     return tuple(lines)
 
 
-def title_fields(project: Project, sd: StripDetail, sheet_plan: SheetPlan, index: int,
-                 total: int) -> tuple[tuple[str, str], ...]:  # fmt: skip
+def wrap_notes(lines: tuple[str, ...]) -> tuple[str, ...]:
+    """The notes wrapped to the column (continuation lines indented under the text)."""
+    out: list[str] = []
+    for line in lines:
+        indent = " " * (len(line) - len(line.lstrip()))
+        head = line.split(" ", 1)[0] if line[:1].isdigit() else ""
+        more = indent + " " * (len(head) + 1 if head else 0)
+        out += textwrap.wrap(
+            line, NOTE_WRAP_CHARS, initial_indent="", subsequent_indent=more, drop_whitespace=True
+        ) or [""]
+    return tuple(out)
+
+
+def title_fields(
+    project: Project, sd: StripDetail, sheet_plan: SheetPlan, index: int, total: int
+) -> tuple[tuple[str, str], ...]:
     """(caption, value) pairs of the title block, top to bottom."""
     strip = sd.strip
     plan = sheet_plan.plan
@@ -199,7 +238,12 @@ def title_fields(project: Project, sd: StripDetail, sheet_plan: SheetPlan, index
         ("Drawing ref", f"{project.drawing_ref}  sheet {index} of {total}"),
         ("Revision", project.revision),
         ("Date", project.date),
-        ("Scale", f"1:{plan.scale} (section, plans), 1:{plan.detail_scale} (section 1-1) "
-                  f"at {sheet_plan.sheet.name}"),  # fmt: skip
+        (
+            "Scale",
+            (
+                f"1:{plan.scale} (section, plans), 1:{plan.detail_scale} (section 1-1) "
+                f"at {sheet_plan.sheet.name}"
+            ),
+        ),
         ("Produced by", f"slabwright {__version__}"),
     )

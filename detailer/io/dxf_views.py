@@ -16,6 +16,7 @@ from __future__ import annotations
 
 __all__ = ["DETAIL_WIDTH_MM", "choose_cut_x", "cross_section", "plan_view"]
 
+import itertools
 from typing import TYPE_CHECKING
 
 from detailer.curtailment import StripGeometry
@@ -29,14 +30,16 @@ if TYPE_CHECKING:
 
 PAPER = st.PaperSizes()
 #: Part of the panel shown in the cross-section, mm (common practice: a metre or so).
-DETAIL_WIDTH_MM = 1200.0
+DETAIL_WIDTH_MM = 800.0
 
 
 def _layer_of(b: BarSet) -> str:
     return b.layer.upper()
 
 
-def plan_view(sd: StripDetail, geom: StripGeometry, face: str, y_top: float, s: int, v: View) -> float:
+def plan_view(
+    sd: StripDetail, geom: StripGeometry, face: str, y_top: float, s: int, v: View
+) -> float:
     """Draw the plan of ``face`` ("bottom" or "top") with its top edge at ``y_top``; return
     the lowest y used."""
     from detailer.io.dxf_layout import bar_fields, label_fields
@@ -47,18 +50,36 @@ def plan_view(sd: StripDetail, geom: StripGeometry, face: str, y_top: float, s: 
     y0 = y_top - w
     letter = "T" if face == "top" else "B"
     left, right = geom.slab_left_mm, geom.slab_right_mm
-    v.polys.append(Poly(st.OUTLINE_LAYER.name,
-                        ((left, y0, 0), (right, y0, 0), (right, y_top, 0), (left, y_top, 0)), True))  # fmt: skip
+    v.polys.append(
+        Poly(
+            st.OUTLINE_LAYER.name,
+            ((left, y0, 0), (right, y0, 0), (right, y_top, 0), (left, y_top, 0)),
+            True,
+        )
+    )
     for sup in strip.supports:
-        xs = (sup.x_mm,) if sup.width_mm <= 0 else (
-            sup.x_mm - sup.width_mm / 2, sup.x_mm + sup.width_mm / 2)  # fmt: skip
+        xs = (
+            (sup.x_mm,)
+            if sup.width_mm <= 0
+            else (sup.x_mm - sup.width_mm / 2, sup.x_mm + sup.width_mm / 2)
+        )
         for x in xs:
-            v.lines.append(Line(st.SUPPORT_HIDDEN_LAYER.name, (x, y0), (x, y_top), float(s)))
-        v.texts.append(Text(st.GRID_LAYER.name, sup.label, sup.x_mm, y_top + 1.5 * s,
-                            PAPER.small_text_mm * s, "BOTTOM_CENTER"))  # fmt: skip
+            v.lines.append(Line(st.SUPPORT_HIDDEN_LAYER.name, (x, y0), (x, y_top)))
+        v.texts.append(
+            Text(
+                st.GRID_LAYER.name,
+                sup.label,
+                sup.x_mm,
+                y_top + 1.5 * s,
+                PAPER.small_text_mm * s,
+                "BOTTOM_CENTER",
+            )
+        )
 
-    sets = sorted((b for b in sd.bar_sets if _layer_of(b).startswith(letter)),
-                  key=lambda b: (b.x_start_mm, b.set_id))  # fmt: skip
+    sets = sorted(
+        (b for b in sd.bar_sets if _layer_of(b).startswith(letter)),
+        key=lambda b: (b.x_start_mm, b.set_id),
+    )
     th = PAPER.small_text_mm * s
     verticals: list[float] = []
     chosen: dict[str, float] = {}
@@ -95,8 +116,15 @@ def plan_view(sd: StripDetail, geom: StripGeometry, face: str, y_top: float, s: 
         if b.role is BarRole.DISTRIBUTION:
             yl = y_top - 0.12 * w - lane_of[b.set_id] * pitch_d
             a = float(b.shape.dim("A")) if "A" in b.shape.shape.as_dict() else w - 2 * cs
-            v.polys.append(Poly(layer, ((xv, y0 + (w - a) / 2, 0), (xv, y0 + (w + a) / 2, 0)),
-                                False, 0.0, bar_fields(b, "plan")))  # fmt: skip
+            v.polys.append(
+                Poly(
+                    layer,
+                    ((xv, y0 + (w - a) / 2, 0), (xv, y0 + (w + a) / 2, 0)),
+                    False,
+                    0.0,
+                    bar_fields(b, "plan"),
+                )
+            )
             x_last = b.x_start_mm + (b.count - 1) * b.spacing_mm
             v.lines.append(Line(lab, (b.x_start_mm, yl), (x_last, yl)))
             for x in (b.x_start_mm, x_last):
@@ -104,8 +132,15 @@ def plan_view(sd: StripDetail, geom: StripGeometry, face: str, y_top: float, s: 
             ymark = yl
         else:
             yl = y0 + 0.12 * w + lane_of[b.set_id] * pitch_p
-            v.polys.append(Poly(layer, tuple((x, y, 0.0) for x, y in _plan_corners(b, geom, yl)),
-                                False, 0.0, bar_fields(b, "plan")))  # fmt: skip
+            v.polys.append(
+                Poly(
+                    layer,
+                    tuple((x, y, 0.0) for x, y in _plan_corners(b, geom, yl)),
+                    False,
+                    0.0,
+                    bar_fields(b, "plan"),
+                )
+            )
             ya = y0 + cs + b.phi_mm / 2 + b.offset_mm
             yb = ya + (b.count - 1) * b.spacing_mm
             v.lines.append(Line(lab, (xv, ya), (xv, yb)))
@@ -116,15 +151,18 @@ def plan_view(sd: StripDetail, geom: StripGeometry, face: str, y_top: float, s: 
         tw = text_width(_tag(b), th)
         clash = any(xv + s < o < xv + 2 * s + tw for o in verticals if o != xv)
         if clash:
-            v.texts.append(Text(lab, _tag(b), xv - s, ymark + s, th, "BOTTOM_RIGHT",
-                                label_fields(b, "plan")))  # fmt: skip
+            v.texts.append(
+                Text(lab, _tag(b), xv - s, ymark + s, th, "BOTTOM_RIGHT", label_fields(b, "plan"))
+            )
         else:
-            v.texts.append(Text(lab, _tag(b), xv + s, ymark + s, th, "BOTTOM_LEFT",
-                                label_fields(b, "plan")))  # fmt: skip
+            v.texts.append(
+                Text(lab, _tag(b), xv + s, ymark + s, th, "BOTTOM_LEFT", label_fields(b, "plan"))
+            )
 
     title = f"PLAN - {face.upper()} BARS ({letter}1, {letter}2)  (1:{s})"
-    v.texts.append(Text(st.NOTES_LAYER.name, title, left, y0 - 4.0 * s,
-                        PAPER.title_text_mm * s, "TOP_LEFT"))  # fmt: skip
+    v.texts.append(
+        Text(st.NOTES_LAYER.name, title, left, y0 - 4.0 * s, PAPER.title_text_mm * s, "TOP_LEFT")
+    )
     return y0 - 4.0 * s - PAPER.title_text_mm * s
 
 
@@ -156,7 +194,12 @@ def _plan_corners(b: BarSet, geom: StripGeometry, y: float) -> list[tuple[float,
         if abs(dims["B"] - (x1 - x0)) <= 10.0:
             return [(x0, y - dims["A"]), (x0, y), (x1, y), (x1, y - dims["C"])]
         if abs(x1 - geom.bar_right_mm) <= 1.0:
-            return [(x1 - dims["A"], y), (x1, y), (x1, y - dims["B"]), (x1 - dims["C"], y - dims["B"])]
+            return [
+                (x1 - dims["A"], y),
+                (x1, y),
+                (x1, y - dims["B"]),
+                (x1 - dims["C"], y - dims["B"]),
+            ]
         return [(x0 + dims["A"], y), (x0, y), (x0, y - dims["B"]), (x0 + dims["C"], y - dims["B"])]
     return [(x0, y), (x1, y)]
 
@@ -168,10 +211,12 @@ def _plan_corners(b: BarSet, geom: StripGeometry, y: float) -> list[tuple[float,
 def choose_cut_x(sd: StripDetail) -> float:
     """Where to cut section 1-1: the middle of the longest stretch with the most layers."""
     geom = StripGeometry.of(sd.strip)
-    events = sorted({geom.bar_left_mm, geom.bar_right_mm}
-                    | {x for b in sd.bar_sets for x in (b.x_start_mm, b.x_end_mm)})  # fmt: skip
+    events = sorted(
+        {geom.bar_left_mm, geom.bar_right_mm}
+        | {x for b in sd.bar_sets for x in (b.x_start_mm, b.x_end_mm)}
+    )
     best, best_key = 0.5 * (geom.bar_left_mm + geom.bar_right_mm), (-1, -1.0)
-    for a, b in zip(events, events[1:]):
+    for a, b in itertools.pairwise(events):
         if b - a < 20.0:
             continue
         mid = 0.5 * (a + b)
@@ -191,8 +236,16 @@ def cross_section(sd: StripDetail, s: int, v: View) -> float:
     wc = min(strip.panel_width_mm, DETAIL_WIDTH_MM)
     x_cut = choose_cut_x(sd)
     zig = min(0.1 * h, 3.0 * s)
-    outline = ((wc, 0), (0, 0), (0, h), (wc, h), (wc, 0.6 * h), (wc - zig, 0.5 * h),
-               (wc + zig, 0.5 * h), (wc, 0.4 * h))  # fmt: skip
+    outline = (
+        (wc, 0),
+        (0, 0),
+        (0, h),
+        (wc, h),
+        (wc, 0.6 * h),
+        (wc - zig, 0.5 * h),
+        (wc + zig, 0.5 * h),
+        (wc, 0.4 * h),
+    )
     v.polys.append(Poly(st.OUTLINE_LAYER.name, tuple((x, y, 0.0) for x, y in outline), True))
     levels = layer_levels_mm(strip, sd.bar_sets)
     present = [b for b in sd.bar_sets if b.x_start_mm <= x_cut <= b.x_end_mm]
@@ -211,8 +264,15 @@ def cross_section(sd: StripDetail, s: int, v: View) -> float:
         layer = st.bar_layer(b.layer, b.role is BarRole.DISTRIBUTION).name
         y = levels.get(_layer_of(b), h / 2)
         if b.role is BarRole.DISTRIBUTION:  # runs across the panel: a line, to its size
-            v.polys.append(Poly(layer, ((cs, y, 0), (wc, y, 0)), False, float(b.phi_mm),
-                                bar_fields(b, "cross-section")))  # fmt: skip
+            v.polys.append(
+                Poly(
+                    layer,
+                    ((cs, y, 0), (wc, y, 0)),
+                    False,
+                    float(b.phi_mm),
+                    bar_fields(b, "cross-section"),
+                )
+            )
             xa = 0.8 * wc
         else:  # seen end-on: one dot per bar within the part shown
             u = cs + b.phi_mm / 2 + b.offset_mm
@@ -224,16 +284,34 @@ def cross_section(sd: StripDetail, s: int, v: View) -> float:
                 v.dots.append(Dot(layer, x, y, float(b.phi_mm), bar_fields(b, "cross-section")))
             xa = xs[-1] if xs else 0.8 * wc
         yr = row_y[b.set_id]
-        v.polys.append(Poly(st.LABEL_LAYER.name,
-                            ((xa, y, 0), (wc + 4.0 * s, yr, 0), (x_text - s, yr, 0))))  # fmt: skip
+        v.polys.append(
+            Poly(st.LABEL_LAYER.name, ((xa, y, 0), (wc + 4.0 * s, yr, 0), (x_text - s, yr, 0)))
+        )
         text = f"{b.layer}: {b.bar_type}{b.phi_mm}-{b.mark}-{b.spacing_mm}"
-        v.texts.append(Text(st.LABEL_LAYER.name, text, x_text, yr, th, "MIDDLE_LEFT",
-                            label_fields(b, "cross-section")))  # fmt: skip
+        v.texts.append(
+            Text(
+                st.LABEL_LAYER.name,
+                text,
+                x_text,
+                yr,
+                th,
+                "MIDDLE_LEFT",
+                label_fields(b, "cross-section"),
+            )
+        )
     _cover_dims(sd, levels, present, s, v)
     title = f"SECTION 1-1 AT x = {x_cut:.0f}  (1:{s})"
     low = -(3.0 + 5.0 * max(len(bottom_rows), 1)) * s
-    v.texts.append(Text(st.NOTES_LAYER.name, title, -20.0 * s, min(low, -16.0 * s) - 2.0 * s,
-                        PAPER.title_text_mm * s, "TOP_LEFT"))  # fmt: skip
+    v.texts.append(
+        Text(
+            st.NOTES_LAYER.name,
+            title,
+            -20.0 * s,
+            min(low, -16.0 * s) - 2.0 * s,
+            PAPER.title_text_mm * s,
+            "TOP_LEFT",
+        )
+    )
     return x_cut
 
 
@@ -245,10 +323,37 @@ def _cover_dims(sd: StripDetail, levels, present, s: int, v: View) -> None:
     def fields(kind: str, ref: str):
         return (("kind", "dimension"), ("dim", kind), ("strip", strip.id), ("ref", ref))
 
-    v.dims.append(Dim((0, h), (0, h - ct), (-7.0 * s, h), 90.0, s,
-                      (-7.0 * s - 2.5 * s, h + 3.0 * s), fields("cover", "top")))  # fmt: skip
-    v.dims.append(Dim((0, 0), (0, cb), (-7.0 * s, 0), 90.0, s,
-                      (-7.0 * s - 2.5 * s, -3.0 * s), fields("cover", "bottom")))  # fmt: skip
+    v.dims.append(
+        Dim(
+            (0, h),
+            (0, h - ct),
+            (-7.0 * s, h),
+            90.0,
+            s,
+            (-7.0 * s - 2.5 * s, h + 3.0 * s),
+            fields("cover", "top"),
+        )
+    )
+    v.dims.append(
+        Dim(
+            (0, 0),
+            (0, cb),
+            (-7.0 * s, 0),
+            90.0,
+            s,
+            (-7.0 * s - 2.5 * s, -3.0 * s),
+            fields("cover", "bottom"),
+        )
+    )
     v.dims.append(Dim((0, 0), (0, h), (-16.0 * s, 0), 90.0, s, None, fields("depth", "h")))
-    v.dims.append(Dim((0, 0), (cs, 0), (0, -12.0 * s), 0.0, s,
-                      (cs + 6.0 * s, -12.0 * s + 2.0 * s), fields("cover", "side")))  # fmt: skip
+    v.dims.append(
+        Dim(
+            (0, 0),
+            (cs, 0),
+            (0, -12.0 * s),
+            0.0,
+            s,
+            (cs + 6.0 * s, -12.0 * s + 2.0 * s),
+            fields("cover", "side"),
+        )
+    )

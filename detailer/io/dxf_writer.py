@@ -41,6 +41,7 @@ from detailer.io.dxf_sheet import (
     choose_sheet,
     general_notes,
     title_fields,
+    wrap_notes,
 )
 from detailer.layout import ProjectDetail
 
@@ -103,19 +104,31 @@ def build_layout(detail: ProjectDetail) -> Drawing:
     if detail.strips:
         doc.layouts.set_active_layout(layout_name(detail.strips[0].strip.id))
         doc.layouts.delete("Layout1")
+    _stable_classes(doc)
     return doc
+
+
+def _stable_classes(doc: Drawing) -> None:
+    """Put the CLASSES section in a fixed order: ezdxf adds classes for the entity types in use
+    from a set, whose order changes from one Python process to the next."""
+    doc.classes.add_required_classes(doc.dxfversion)
+    for name in sorted(doc.entitydb.dxf_types_in_use()):
+        doc.classes.add_class(name)
+    doc.classes.classes = dict(sorted(doc.classes.classes.items()))
 
 
 def _setup(doc: Drawing, plans: list[SheetPlan]) -> None:
     """Define every table entry before use: appid, linetypes, text style, layers, dimstyles."""
     doc.appids.add(st.APPID)
     for lt in st.LINETYPES:
-        doc.linetypes.add(lt.name, pattern=[lt.total_mm, *lt.pattern_mm],
-                          description=lt.description)  # fmt: skip
+        doc.linetypes.add(
+            lt.name, pattern=[lt.total_mm, *lt.pattern_mm], description=lt.description
+        )
     doc.styles.add(st.TEXT_STYLE, font=st.TEXT_FONT)
     for layer in st.LAYERS:
-        doc.layers.add(layer.name, color=layer.colour, linetype=layer.linetype,
-                       lineweight=layer.lineweight)  # fmt: skip
+        doc.layers.add(
+            layer.name, color=layer.colour, linetype=layer.linetype, lineweight=layer.lineweight
+        )
         entry = doc.layers.get(layer.name)
         entry.description = layer.description
         if not layer.plot:
@@ -146,7 +159,8 @@ def _setup(doc: Drawing, plans: list[SheetPlan]) -> None:
             },
         )
     doc.header["$LTSCALE"] = 1.0
-    doc.header["$PSLTSCALE"] = 0  # linetype scale is set per entity to its view's plot scale
+    # dashes keep their paper length in every viewport, whatever its scale
+    doc.header["$PSLTSCALE"] = 1
     doc.header["$LWDISPLAY"] = 1
     doc.header["$TEXTSTYLE"] = st.TEXT_STYLE
     doc.header["$DIMSTYLE"] = st.dimstyle_name(scales[0]) if scales else "Standard"
@@ -165,17 +179,22 @@ def _emit(layout, view: View, dx: float, dy: float) -> None:
     """Add the view's primitives to ``layout``, shifted by (dx, dy)."""
     for p in view.polys:
         pts = [(x + dx, y + dy, b) for x, y, b in p.points]
-        e = layout.add_lwpolyline(pts, format="xyb", close=p.closed,
-                                  dxfattribs=_attribs(p.layer, const_width=p.width))  # fmt: skip
+        e = layout.add_lwpolyline(
+            pts, format="xyb", close=p.closed, dxfattribs=_attribs(p.layer, const_width=p.width)
+        )
         _xdata(e, p.xdata)
     for ln in view.lines:
-        e = layout.add_line((ln.start[0] + dx, ln.start[1] + dy), (ln.end[0] + dx, ln.end[1] + dy),
-                            dxfattribs=_attribs(ln.layer, ltscale=ln.ltscale))  # fmt: skip
+        e = layout.add_line(
+            (ln.start[0] + dx, ln.start[1] + dy),
+            (ln.end[0] + dx, ln.end[1] + dy),
+            dxfattribs=_attribs(ln.layer),
+        )
     for d in view.dots:  # a donut: two half-circle arcs of width r, closing to a disc
         r = d.diameter / 4
         pts = [(d.x + dx - r, d.y + dy, 1.0), (d.x + dx + r, d.y + dy, 1.0)]
-        e = layout.add_lwpolyline(pts, format="xyb", close=True,
-                                  dxfattribs=_attribs(d.layer, const_width=2 * r))  # fmt: skip
+        e = layout.add_lwpolyline(
+            pts, format="xyb", close=True, dxfattribs=_attribs(d.layer, const_width=2 * r)
+        )
         _xdata(e, d.xdata)
     for c in view.circles:
         layout.add_circle((c.x + dx, c.y + dy), c.radius, dxfattribs=_attribs(c.layer))
@@ -184,8 +203,9 @@ def _emit(layout, view: View, dx: float, dy: float) -> None:
         hatch.paths.add_polyline_path([(x + dx, y + dy) for x, y in h.boundary], is_closed=True)
         hatch.set_pattern_fill(h.pattern, scale=h.scale)
     for t in view.texts:
-        e = layout.add_text(t.text, height=t.height,
-                            dxfattribs=_attribs(t.layer, style=st.TEXT_STYLE))  # fmt: skip
+        e = layout.add_text(
+            t.text, height=t.height, dxfattribs=_attribs(t.layer, style=st.TEXT_STYLE)
+        )
         e.set_placement((t.x + dx, t.y + dy), align=TextEntityAlignment[t.align])
         _xdata(e, t.xdata)
     for d in view.dims:
@@ -203,20 +223,34 @@ def _emit(layout, view: View, dx: float, dy: float) -> None:
         _xdata(dim.dimension, d.xdata)
 
 
-def _sheet(doc: Drawing, name: str, project, sd, sp: SheetPlan, shift, detail_shift,
-           index: int, total: int) -> None:  # fmt: skip
+def _sheet(
+    doc: Drawing, name: str, project, sd, sp: SheetPlan, shift, detail_shift, index: int, total: int
+) -> None:
     """One paper-space sheet: frame, viewports, notes, title block."""
     psp = doc.layouts.new(name)
-    psp.page_setup(size=(sp.sheet.width_mm, sp.sheet.height_mm), margins=(0, 0, 0, 0),
-                   units="mm", scale=(1, 1), name=f"ISO {sp.sheet.name}")  # fmt: skip
+    psp.page_setup(
+        size=(sp.sheet.width_mm, sp.sheet.height_mm),
+        margins=(0, 0, 0, 0),
+        units="mm",
+        scale=(1, 1),
+        name=f"ISO {sp.sheet.name}",
+    )
+    overall = psp.main_viewport()  # the sheet's own view (id 1): keep it on our layer too
+    if overall is not None:
+        overall.dxf.layer = st.VIEWPORT_LAYER.name
     title = st.TITLE_LAYER.name
     f = sp.frame
-    psp.add_lwpolyline([(f.x0, f.y0), (f.x1, f.y0), (f.x1, f.y1), (f.x0, f.y1)], close=True,
-                       dxfattribs=_attribs(title, lineweight=50))  # fmt: skip
+    psp.add_lwpolyline(
+        [(f.x0, f.y0), (f.x1, f.y0), (f.x1, f.y1), (f.x0, f.y1)],
+        close=True,
+        dxfattribs=_attribs(title, lineweight=50),
+    )
     c = sp.column
     psp.add_line((c.x0, c.y0), (c.x0, c.y1), dxfattribs=_attribs(title))
-    for vp, (mx, my), s in ((sp.main, shift, sp.plan.scale),
-                            (sp.detail, detail_shift, sp.plan.detail_scale)):  # fmt: skip
+    for vp, (mx, my), s in (
+        (sp.main, shift, sp.plan.scale),
+        (sp.detail, detail_shift, sp.plan.detail_scale),
+    ):
         e = psp.add_viewport(
             center=vp.centre,
             size=vp.size,
@@ -228,18 +262,14 @@ def _sheet(doc: Drawing, name: str, project, sd, sp: SheetPlan, shift, detail_sh
         _xdata(e, (("kind", "viewport"), ("strip", sd.strip.id), ("scale", f"1:{s}")))
     notes = st.NOTES_LAYER.name
     y = sp.notes_top
-    text = "\\P".join(_escape_mtext(t) for t in general_notes(project, sd))
-    m = psp.add_mtext(text, dxfattribs=_attribs(notes, style=st.TEXT_STYLE,
-                                                char_height=NOTE_TEXT_MM))  # fmt: skip
-    m.dxf.insert = (c.x0 + 4.0, y)
-    m.dxf.width = c.x1 - c.x0 - 8.0
-    m.dxf.attachment_point = 1  # top left
-    m.dxf.line_spacing_factor = NOTE_LINE_MM / (NOTE_TEXT_MM * 1.667)
+    for line in wrap_notes(general_notes(project, sd)):
+        if line.strip():
+            e = psp.add_text(
+                line.rstrip(), height=NOTE_TEXT_MM, dxfattribs=_attribs(notes, style=st.TEXT_STYLE)
+            )
+            e.set_placement((c.x0 + 4.0, y), align=TextEntityAlignment.TOP_LEFT)
+        y -= NOTE_LINE_MM
     _title_block(psp, sp, title_fields(project, sd, sp, index, total))
-
-
-def _escape_mtext(text: str) -> str:
-    return text.replace("\\", "\\\\").replace("{", "\\{").replace("}", "\\}")
 
 
 def _title_block(psp, sp: SheetPlan, fields) -> None:

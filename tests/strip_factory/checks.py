@@ -1,12 +1,8 @@
-"""Random valid projects for the design and detailing tests, built from YAML text.
+"""Independent checks of a detailed strip against EN 1992-1-1 and BS 8666.
 
-A ``StripSpec`` describes one strip in the terms of the project file (sample_projects/README.md);
-``project_yaml`` writes the file and ``build_project`` reads it back through
-``detailer.project.parse_project``, so every generated project is one a user could have typed.
-``strip_specs()`` is the hypothesis strategy for the property tests.
-
-Also here: small, independent clause formulas the tests check the pipeline against (each names
-its clause); they are written from the standards, not imported from ``detailer/codes``.
+Each check reads only public results (zones, bar sets, the analysis envelope, the demand curve
+the self-check used) and the formulas of ``clauses``; it returns one line per violation so a
+test can print them all. ``check_detail`` runs them all.
 """
 
 from __future__ import annotations
@@ -15,213 +11,20 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from hypothesis import strategies as st
 
-from detailer.model import Project
-from detailer.project import parse_project
-
-# --------------------------------------------------------------------------- project files
-
-
-@dataclass(frozen=True, slots=True)
-class StripSpec:
-    """One strip of a generated project; lengths in mm, area loads kN/m2, line loads kN/m."""
-
-    spans_mm: tuple[int, ...]
-    thickness_mm: int
-    g_k_kn_per_m2: float  # superimposed permanent load (self-weight is added by the reader)
-    q_k_kn_per_m2: float
-    left_end: str = "pinned"  # "pinned", "monolithic" or "cantilever"
-    right_end: str = "pinned"
-    left_cantilever_mm: int = 0
-    right_cantilever_mm: int = 0
-    line_load: tuple[int, int, float] | None = None  # (span number, x_mm, g_k kN/m)
-    concrete: str = "C30/37"
-    cover_mm: int = 25
-    support_width_mm: int = 250
-    panel_width_mm: int = 5000
-    stock_length_mm: int = 12000
-    curtailment: str = "envelope"
-    category: str = "A"
-
-
-def _end(kind: str, cantilever_mm: int) -> str:
-    return f"{{cantilever_mm: {cantilever_mm}}}" if kind == "cantilever" else kind
-
-
-def project_yaml(spec: StripSpec, strip_id: str = "G1") -> str:
-    """The project file for one generated strip (format: sample_projects/README.md)."""
-    lines = [
-        "project: {id: gen, title: \"Generated strip\", revision: P1, date: 2025-01-01, drawing: G-1}",
-        f"materials: {{concrete: {spec.concrete}}}",
-        "reinforcement:",
-        f"  stock_length_mm: {spec.stock_length_mm}",
-        f"  curtailment: {spec.curtailment}",
-        "strips:",
-        f"  - id: {strip_id}",
-        f"    thickness_mm: {spec.thickness_mm}",
-        f"    cover: {{top_mm: {spec.cover_mm}, bottom_mm: {spec.cover_mm}, side_mm: {spec.cover_mm}}}",
-        f"    panel_width_mm: {spec.panel_width_mm}",
-        f"    spans_mm: [{', '.join(str(s) for s in spec.spans_mm)}]",
-        f"    support_widths_mm: {spec.support_width_mm}",
-        f"    left_end: {_end(spec.left_end, spec.left_cantilever_mm)}",
-        f"    right_end: {_end(spec.right_end, spec.right_cantilever_mm)}",
-        "    loads:",
-        f"      category: {spec.category}",
-        f"      g_k_kn_per_m2: {spec.g_k_kn_per_m2:.2f}",
-        f"      q_k_kn_per_m2: {spec.q_k_kn_per_m2:.2f}",
-    ]
-    if spec.line_load is not None:
-        span, x_mm, g_k = spec.line_load
-        lines.append(f"      line: [{{span: {span}, x_mm: {x_mm}, g_k_kn_per_m: {g_k:.2f}}}]")
-    return "\n".join(lines) + "\n"
-
-
-def build_project(spec: StripSpec) -> Project:
-    """Parse the generated file exactly as a user's file would be parsed."""
-    return parse_project(project_yaml(spec), "gen.yaml")
-
-
-@st.composite
-def strip_specs(draw: st.DrawFn) -> StripSpec:
-    """2-5 spans of 2.5-7.5 m, h 175-300, g_k 0.5-3, q_k 1.5-5 kN/m2, optional cantilever
-    (0.8-2 m), monolithic end and line load. h is drawn at least span/32 so that most strips
-    are designable (the test still accepts a clean DesignError)."""
-    n = draw(st.integers(2, 5))
-    spans = tuple(draw(st.integers(50, 150)) * 50 for _ in range(n))
-    h_low = max(175, 5 * math.ceil(max(spans) / 32 / 5))
-    h = draw(st.integers(h_low // 5, 60)) * 5 if h_low <= 300 else 300
-    ends = []
-    cantilevers = []
-    for _ in range(2):
-        kind = draw(st.sampled_from(["pinned", "pinned", "monolithic", "cantilever"]))
-        ends.append(kind)
-        cantilevers.append(draw(st.integers(16, 40)) * 50 if kind == "cantilever" else 0)
-    line = None
-    if draw(st.booleans()):
-        span = draw(st.integers(1, n))
-        x = draw(st.integers(2, 8)) * spans[span - 1] // 10
-        line = (span, x, draw(st.integers(4, 20)) / 2.0)
-    return StripSpec(
-        spans_mm=spans,
-        thickness_mm=h,
-        g_k_kn_per_m2=draw(st.integers(2, 12)) / 4.0,
-        q_k_kn_per_m2=draw(st.integers(3, 10)) / 2.0,
-        left_end=ends[0],
-        right_end=ends[1],
-        left_cantilever_mm=cantilevers[0],
-        right_cantilever_mm=cantilevers[1],
-        line_load=line,
-        concrete=draw(st.sampled_from(["C25/30", "C30/37", "C32/40", "C35/45"])),
-        cover_mm=draw(st.sampled_from([25, 30, 35])),
-        support_width_mm=draw(st.integers(4, 7)) * 50,
-        panel_width_mm=draw(st.integers(6, 16)) * 500,
-    )
-
-
-# --------------------------------------------------------------------------- clause formulas
-
-GAMMA_C = 1.5  # EN 1992-1-1:2004, Table 2.1N (UK NA the same)
-GAMMA_S = 1.15  # EN 1992-1-1:2004, Table 2.1N (UK NA the same)
-ALPHA_CC = 0.85  # UK NA to EN 1992-1-1:2004, 3.1.6(1), flexure
-F_YK = 500.0  # B500 to BS 4449
-
-
-def f_ck_of(concrete: str) -> float:
-    """f_ck from a class name such as "C30/37" (EN 1992-1-1:2004, Table 3.1)."""
-    return float(concrete[1:].split("/")[0])
-
-
-def f_ctm(f_ck: float) -> float:
-    """f_ctm = 0.30 f_ck^(2/3) for <= C50/60 (EN 1992-1-1:2004, Table 3.1, formula value)."""
-    return 0.30 * f_ck ** (2.0 / 3.0)
-
-
-def f_yd() -> float:
-    """f_yd = f_yk / gamma_s (EN 1992-1-1:2004, 3.2.7(2))."""
-    return F_YK / GAMMA_S
-
-
-def bar_area(phi_mm: float) -> float:
-    """Nominal area pi phi^2 / 4, mm2 (BS 4449:1997, Table 1)."""
-    return math.pi * phi_mm**2 / 4.0
-
-
-def as_per_m(phi_mm: float, spacing_mm: float) -> float:
-    """Area per metre width, (pi phi^2/4) 1000/s, mm2/m."""
-    return bar_area(phi_mm) * 1000.0 / spacing_mm
-
-
-def m_rd_knm(as_mm2: float, d_mm: float, f_ck: float, b_mm: float = 1000.0) -> float:
-    """Rectangular block, steel yielded: x = A f_yd/(0.8 f_cd b), z = d - 0.4x <= 0.95 d.
-
-    EN 1992-1-1:2004, 3.1.7(3) with f_cd = alpha_cc f_ck/gamma_c (3.1.6(1), UK NA alpha_cc
-    0.85); the 0.95 d cap is the Concrete Centre "How to" good practice used in the design.
-    """
-    if as_mm2 <= 0:
-        return 0.0
-    f_cd = ALPHA_CC * f_ck / GAMMA_C
-    x = as_mm2 * f_yd() / (0.8 * f_cd * b_mm)
-    z = min(d_mm - 0.4 * x, 0.95 * d_mm)
-    return as_mm2 * f_yd() * z / 1e6
-
-
-def l_bd_mm(phi: float, f_ck: float, cover_mm: float, good_bond: bool) -> float:
-    """Design anchorage length of a straight bar in tension at sigma_sd = f_yd.
-
-    f_ctd = alpha_ct f_ctk,0.05/gamma_c with f_ctk,0.05 = 0.7 f_ctm (3.1.6(2), Table 3.1);
-    f_bd = 2.25 eta_1 f_ctd (Eq. (8.2), eta_2 = 1 for phi <= 32); l_b,rqd = phi/4 f_yd/f_bd
-    (Eq. (8.3)); alpha_2 = 1 - 0.15 (c_d - phi)/phi within 0.7..1 with c_d = cover (Table 8.2,
-    Fig. 8.3: the cover governs c_d for slab bars at >= 2 c + phi centres); l_bd >= l_b,min =
-    max(0.3 l_b,rqd, 10 phi, 100) (Eq. (8.4), (8.6)). EN 1992-1-1:2004, 8.4.
-    """
-    f_ctd = 1.0 * 0.7 * f_ctm(f_ck) / GAMMA_C
-    f_bd = 2.25 * (1.0 if good_bond else 0.7) * f_ctd
-    l_b_rqd = phi / 4.0 * f_yd() / f_bd
-    alpha_2 = min(1.0, max(0.7, 1.0 - 0.15 * (cover_mm - phi) / phi))
-    return max(alpha_2 * l_b_rqd, 0.3 * l_b_rqd, 10.0 * phi, 100.0)
-
-
-def l_0_mm(phi: float, f_ck: float, cover_mm: float, good_bond: bool) -> float:
-    """Lap length with all bars lapped at one section (alpha_6 = 1.5, Table 8.3 > 50 %):
-    l_0 = alpha_2 alpha_6 l_b,rqd >= max(0.3 alpha_6 l_b,rqd, 15 phi, 200).
-
-    EN 1992-1-1:2004, 8.7.3(1), Eq. (8.10), Eq. (8.11).
-    """
-    f_ctd = 0.7 * f_ctm(f_ck) / GAMMA_C
-    f_bd = 2.25 * (1.0 if good_bond else 0.7) * f_ctd
-    l_b_rqd = phi / 4.0 * f_yd() / f_bd
-    alpha_2 = min(1.0, max(0.7, 1.0 - 0.15 * (cover_mm - phi) / phi))
-    return max(alpha_2 * 1.5 * l_b_rqd, 0.3 * 1.5 * l_b_rqd, 15.0 * phi, 200.0)
-
-
-def top_bond_good(h_mm: float) -> bool:
-    """Horizontal bars in members h <= 250 mm are in good bond; top bars of deeper slabs
-    (within 250 mm... of the top, h <= 600) are taken as poor (EN 1992-1-1:2004, Fig. 8.2)."""
-    return h_mm <= 250.0
-
-
-#: BS 8666:2005, Table 2: minimum scheduling radius r by bar size d, mm.
-BS8666_R_MM = {6: 12, 8: 16, 10: 20, 12: 24, 16: 32, 20: 70, 25: 87, 32: 112, 40: 140, 50: 175}
-
-
-def bs8666_length_mm(code: str, phi: int, dims: dict[str, int]) -> float:
-    """Total length L along the centre line, BS 8666:2005 standard shapes table:
-    00/01 L = A; 11 L = A + (B) - 0.5r - d; 21 L = A + B + (C) - r - 2d."""
-    r = BS8666_R_MM[phi]
-    if code in ("00", "01"):
-        return float(dims["A"])
-    if code == "11":
-        return dims["A"] + dims["B"] - 0.5 * r - phi
-    if code == "21":
-        return dims["A"] + dims["B"] + dims["C"] - r - 2.0 * phi
-    raise AssertionError(f"shape code {code} is not expected in a one-way slab strip")
-
-
-
-# --------------------------------------------------------------------------- independent checks
-# Each check reads only the public results (zones, bar sets, the analysis envelope) and the
-# clause formulas above; it returns one line per violation so a test can print them all.
+from tests.strip_factory.clauses import (
+    F_YK,
+    as_per_m,
+    bs8666_length_mm,
+    f_ck_of,
+    f_ctm,
+    flexure_as_req,
+    l_0_mm,
+    l_bd_mm,
+    m_rd_knm,
+    spacing_limit_mm,
+    top_bond_good,
+)
 
 TOL_KNM = 0.02  # kNm/m: demand and resistance are sampled on a 10 mm grid
 TOL_REL = 2e-3
@@ -280,13 +83,6 @@ def l_bd_of(project, strip, phi: int, top: bool) -> float:
     return l_bd_mm(phi, f_ck_project(project), cover, good)
 
 
-def l_0_of(project, strip, phi: int, top: bool) -> float:
-    """Independent l_0 of one bar size in one face (``l_0_mm``)."""
-    cover = strip.cover_top_mm if top else strip.cover_bottom_mm
-    good = top_bond_good(strip.thickness_mm) if top else True
-    return l_0_mm(phi, f_ck_project(project), cover, good)
-
-
 def end_legs(bar, ends: SlabEnds, cover_side_mm: float) -> tuple[float, float]:
     """Legs turned down at the left/right ends (they count as anchorage along the bar)."""
     code = bar.shape.code
@@ -296,23 +92,28 @@ def end_legs(bar, ends: SlabEnds, cover_side_mm: float) -> tuple[float, float]:
         return (leg, 0.0) if at_left else (0.0, leg)
     if code == "21" and not is_u_bar(bar):
         return float(bar.shape.dim("A")), float(bar.shape.dim("C"))
+    if code == "21":  # U-bar: the rest of the U lies beyond the free-edge end of its top leg
+        rest = bar.shape.length_exact_mm - bar.shape.dim("A")
+        at_left = abs(bar.x_start_mm - (ends.left_mm + cover_side_mm)) < 1.0
+        return (rest, 0.0) if at_left else (0.0, rest)
     return 0.0, 0.0
 
 
 def resistance_knm(project, detail, top: bool, x_mm: np.ndarray, exclude=()) -> np.ndarray:
     """M_Rd(x) of the principal bars of one face, kNm/m.
 
-    Each bar set counts with its full area where it has l_bd of bar (legs included) on both
-    sides of x, and linearly less within l_bd of an end (EN 1992-1-1:2004, 9.2.1.3(3), Fig. 9.2);
-    the resistance is that of the total area at its centroid (``m_rd_knm``). U-bars at free
-    edges are left out (on the safe side).
+    Each bar set counts with its full area where it has l_bd of bar on both sides of x, and
+    linearly less within l_bd of an end (EN 1992-1-1:2004, 9.2.1.3(3), Fig. 9.2), the length
+    measured along the bar through bends (8.4.4, Fig. 8.1): a leg turned down into a support,
+    and for a U-bar at a free edge its bend and bottom leg; the resistance is that of the total
+    area at its centroid (``m_rd_knm``).
     """
     strip = detail.strip
     ends = slab_ends(strip)
     cover = strip.cover_top_mm if top else strip.cover_bottom_mm
     area = np.zeros_like(x_mm)
     area_d = np.zeros_like(x_mm)
-    for b in principal_bars(detail, top):
+    for b in principal_bars(detail, top, with_u=True):
         if b.set_id in exclude:
             continue
         lbd = l_bd_of(project, strip, b.phi_mm, top)
@@ -388,15 +189,6 @@ def check_shift(project, detail) -> list[str]:
     return out
 
 
-def flexure_as_req(m_ed_knm: float, d_mm: float, f_ck: float) -> tuple[float, float, float]:
-    """(K, z, A_s,req) by the Concrete Centre "How to design concrete structures using
-    Eurocode 2" method (EN 1992-1-1:2004, 6.1, 3.1.7(3)): K = M/(b d^2 f_ck),
-    z = d [0.5 + sqrt(0.25 - K/1.134)] <= 0.95 d, A_s = M/(f_yd z); b = 1000 mm."""
-    k = m_ed_knm * 1e6 / (1000.0 * d_mm**2 * f_ck)
-    z = min(d_mm * (0.5 + math.sqrt(0.25 - k / 1.134)), 0.95 * d_mm)
-    return k, z, m_ed_knm * 1e6 / (f_yd() * z)
-
-
 def is_end_fixity_zone(zone) -> bool:
     """Top steel over a pinned end for the partial fixity the analysis ignores (9.3.1.2(2))."""
     return zone.description.endswith("(end), top")
@@ -405,14 +197,6 @@ def is_end_fixity_zone(zone) -> bool:
 def is_nominal_zone(zone) -> bool:
     """Nominal bottom bars of a cantilever (common practice): no designed moment."""
     return "nominal" in zone.description
-
-
-def spacing_limit_mm(h_mm: float, *, principal: bool, max_moment: bool) -> float:
-    """EN 1992-1-1:2004, 9.3.1.1(3): principal 3h <= 400 (2h <= 250 in areas of maximum
-    moment); secondary 3.5h <= 450 (3h <= 400 there)."""
-    if principal:
-        return min(2 * h_mm, 250.0) if max_moment else min(3 * h_mm, 400.0)
-    return min(3 * h_mm, 400.0) if max_moment else min(3.5 * h_mm, 450.0)
 
 
 def check_zones(project, detail) -> list[str]:
@@ -461,9 +245,17 @@ def check_zones(project, detail) -> list[str]:
         if effective > limit + 1e-6:
             out.append(f"9.3.1.1(3): {name} bars at {effective:.0f} mm at the peak > {limit:g}")
     general = spacing_limit_mm(h, principal=True, max_moment=False)
-    for b in principal_bars(detail, True) + principal_bars(detail, False):
-        if b.spacing_mm > general:
-            out.append(f"9.3.1.1(3): set {b.set_id} at {b.spacing_mm} > {general:g} mm")
+    for z in detail.zones:
+        sets = [b for b in principal_bars(detail, z.face.value == "top") if b.zone_id == z.zone_id]
+        x0, x1 = min(b.x_start_mm for b in sets), max(b.x_end_mm for b in sets)
+        for x in np.linspace(x0, x1, 200):
+            here = [b for b in sets if b.x_start_mm - 1e-6 <= x <= b.x_end_mm + 1e-6]
+            spacing = 1.0 / sum(1.0 / b.spacing_mm for b in here) if here else math.inf
+            if spacing > general + 1e-6:
+                out.append(
+                    f"9.3.1.1(3): {z.zone_id} bars at {spacing:.0f} > {general:g} mm at x = {x:.0f}"
+                )
+                break
     return out
 
 
@@ -473,11 +265,15 @@ def check_distribution(project, detail) -> list[str]:
     strip = detail.strip
     out = []
     for z in detail.zones:
-        dist = [b for b in detail.bar_sets if b.role.value == "distribution" and b.zone_id == z.zone_id]
+        dist = [
+            b for b in detail.bar_sets if b.role.value == "distribution" and b.zone_id == z.zone_id
+        ]
         if not dist:
             out.append(f"9.3.1.1(2): zone {z.zone_id} has no distribution bars")
             continue
-        main = [b for b in detail.bar_sets if b.role.value == "principal" and b.zone_id == z.zone_id]
+        main = [
+            b for b in detail.bar_sets if b.role.value == "principal" and b.zone_id == z.zone_id
+        ]
         for b in dist:
             a = as_per_m(b.phi_mm, b.spacing_mm)
             if a < 0.2 * z.as_prov_mm2_per_m * (1 - 1e-9):
@@ -625,9 +421,11 @@ def check_bars(project, detail) -> list[str]:
         if shape.length_mm > stock:
             out.append(f"{b.set_id}: {shape.length_mm} mm is longer than the {stock:g} mm stock")
         if b.role.value == "distribution":
-            if shape.length_mm > across + 1e-6 and len(
-                [x for x in detail.bar_sets if x.zone_id == b.zone_id and x.role is b.role]
-            ) == 1:
+            if (
+                shape.length_mm > across + 1e-6
+                and len([x for x in detail.bar_sets if x.zone_id == b.zone_id and x.role is b.role])
+                == 1
+            ):
                 out.append(f"{b.set_id}: {shape.length_mm} mm is wider than the panel less cover")
             continue
         if b.x_start_mm < ends.left_mm + c - 0.5 or b.x_end_mm > ends.right_mm - c + 0.5:
@@ -646,10 +444,13 @@ def check_bars(project, detail) -> list[str]:
 
 def lap_partners(detail, bar):
     """Other pieces of the same lapped run (same zone, layer, size, spacing and offset)."""
+    if is_u_bar(bar):
+        return []
     return [
         o
         for o in detail.bar_sets
         if o is not bar
+        and not is_u_bar(o)
         and o.role is bar.role
         and o.zone_id == bar.zone_id
         and o.layer == bar.layer
@@ -661,42 +462,94 @@ def lap_partners(detail, bar):
     ]
 
 
+def l_0_for(project, strip, phi: int, top: bool, alpha_6: float) -> float:
+    """Independent l_0 of one bar size in one face (``l_0_mm``)."""
+    cover = strip.cover_top_mm if top else strip.cover_bottom_mm
+    good = top_bond_good(strip.thickness_mm) if top else True
+    return l_0_mm(phi, f_ck_project(project), cover, good, alpha_6)
+
+
+def laps(detail, top: bool) -> list[tuple[object, object, float, float]]:
+    """(left piece, right piece, centre, overlap) of every lap of principal bars on a face."""
+    out = []
+    for b in principal_bars(detail, top):
+        for o in lap_partners(detail, b):
+            if o.x_start_mm > b.x_start_mm:
+                lo, hi = o.x_start_mm, min(b.x_end_mm, o.x_end_mm)
+                out.append((b, o, 0.5 * (lo + hi), hi - lo))
+    return out
+
+
 def check_laps(project, detail) -> list[str]:
-    """Lapped pieces of principal bars overlap by >= l_0 (EN 1992-1-1:2004, 8.7.3(1), all bars
-    lapped at one section: alpha_6 = 1.5)."""
+    """Laps of principal bars overlap by >= l_0 with alpha_6 from the share rho_1 of the steel
+    lapped within 0.65 l_0 of the lap's centre, found from the layout (EN 1992-1-1:2004,
+    8.7.2(3), 8.7.3(1), Eq. (8.10), Table 8.3: alpha_6 = (rho_1/25)^0.5 within 1.0..1.5);
+    distribution bars, all lapped at one section, by l_0 with alpha_6 = 1.5."""
     strip = detail.strip
     out = []
-    for b in detail.bar_sets:
-        if b.role.value != "principal":
-            continue
-        need = l_0_of(project, strip, b.phi_mm, is_top(b))
-        for o in lap_partners(detail, b):
-            if o.x_start_mm <= b.x_start_mm:
-                continue  # each pair once, from its left piece
-            overlap = b.x_end_mm - o.x_start_mm
+    for top in (True, False):
+        all_laps = laps(detail, top)
+        bars = principal_bars(detail, top)
+        for b, o, centre, overlap in all_laps:
+            need = l_0_for(project, strip, b.phi_mm, top, 1.5)
+            for _ in range(3):  # window 0.65 l_0 and l_0 depend on each other: iterate
+                window = 0.65 * need
+                lapped = sum(
+                    as_per_m(p.phi_mm, p.spacing_mm)
+                    for p, _, c, _ in all_laps
+                    if abs(c - centre) <= window
+                )
+                total = sum(
+                    as_per_m(p.phi_mm, p.spacing_mm)
+                    for p in bars
+                    if p.x_start_mm <= centre <= p.x_end_mm
+                ) - sum(
+                    as_per_m(p.phi_mm, p.spacing_mm)
+                    for p, q, _, _ in all_laps
+                    if q.x_start_mm <= centre <= p.x_end_mm
+                )
+                rho_1 = 100.0 * lapped / total
+                alpha_6 = min(1.5, max(1.0, math.sqrt(rho_1 / 25.0)))
+                need = l_0_for(project, strip, b.phi_mm, top, alpha_6)
             if overlap < need - 0.5:
-                out.append(f"8.7.3: {b.set_id}/{o.set_id} lap {overlap:.0f} < l_0 {need:.0f} mm")
+                out.append(
+                    f"8.7.3: {b.set_id}/{o.set_id} lap {overlap:.0f} < l_0 {need:.0f} mm "
+                    f"(rho_1 {rho_1:.0f} %)"
+                )
+    across = strip.panel_width_mm - 2 * strip.cover_side_mm
+    for z in detail.zones:
+        dist = [
+            b for b in detail.bar_sets if b.role.value == "distribution" and b.zone_id == z.zone_id
+        ]
+        if len(dist) < 2:
+            continue
+        top = z.face.value == "top"
+        lap = (sum(b.shape.length_mm for b in dist) - across) / (len(dist) - 1)
+        need = l_0_for(project, strip, dist[0].phi_mm, top, 1.5)
+        if lap < need - 0.5:
+            out.append(f"8.7.3: distribution bars of {z.zone_id} lapped {lap:.0f} < {need:.0f}")
     return out
 
 
 def _at_internal_support(strip, x_mm: float, phi: int) -> bool:
     """Within 10 phi (plus the support) of an internal support: a bottom bar stopping here
     is governed by 9.2.1.5(1) and the Fig. 9.2 resistance envelope, not by curtailment."""
-    internal = [
-        s
-        for k, s in enumerate(strip.supports)
-        if k not in end_support_indices(strip)
-    ]
+    internal = [s for k, s in enumerate(strip.supports) if k not in end_support_indices(strip)]
     return any(abs(x_mm - s.x_mm) <= s.width_mm / 2 + 10 * phi + 1.0 for s in internal)
 
 
 def check_curtailment(project, detail) -> list[str]:
-    """Bars stop only where they are no longer needed, plus l_bd (EN 1992-1-1:2004, 9.2.1.3(3)
-    and Fig. 9.2, the stopped bar's own anchorage length not counted): over the last l_bd of
-    every bar end inside the concrete (not at a slab end, not a lap, not a bottom bar ending
-    at an internal support) the other bars of that face, with their own build-up over l_bd,
-    resist the shifted M_Ed. So where a bar stops, the point where it is no longer needed lies
-    at least l_bd before its end."""
+    """Bars stop only where they are no longer needed, plus l_bd: over the last l_bd of every
+    bar end inside the concrete (not at a slab end, not a lap, not a bottom bar ending at an
+    internal support) the other bars of that face, with their own build-up over l_bd, resist
+    the shifted M_Ed; so the point where a bar is no longer needed lies >= l_bd before its end.
+
+    This is the stricter reading of EN 1992-1-1:2004, 9.2.1.3(3) and Fig. 9.2 (the stopped bar's
+    own anchorage length not counted, "as a conservative simplification"), which the envelope
+    method states for its cut-offs. The clause itself allows the linear build-up within l_bd;
+    that exact rule is ``check_selfcheck``, the only one applied to the simplified rules."""
+    if project.reinforcement.curtailment.value != "envelope":
+        return []
     strip = detail.strip
     ends = slab_ends(strip)
     c = strip.cover_side_mm
@@ -734,13 +587,12 @@ def check_curtailment(project, detail) -> list[str]:
 
 
 def check_anchorage_table(project, detail) -> list[str]:
-    """The l_bd and l_0 the pipeline reports against the ones computed here (8.4.4, 8.7.3)."""
+    """The l_bd the pipeline reports against the one computed here (8.4.4)."""
     out = []
     for a in detail.anchorage:
         top = a.layer.startswith("T")
         for name, got, want in (
             ("l_bd", a.l_bd_mm, l_bd_of(project, detail.strip, a.phi_mm, top)),
-            ("l_0", a.l_0_mm, l_0_of(project, detail.strip, a.phi_mm, top)),
         ):
             if abs(got - want) > 5e-3 * want:
                 out.append(f"{name} of H{a.phi_mm} {a.layer}: {got:.1f} against {want:.1f} mm")

@@ -1,0 +1,68 @@
+"""Test helpers for design and detailing: random valid strips (``generate``), clause formulas
+written from the standards (``clauses``) and independent checks of a detailed strip
+(``checks``)."""
+
+from tests.strip_factory.checks import (
+    ALL_CHECKS,
+    check_bars,
+    check_curtailment,
+    check_detail,
+    check_distribution,
+    check_laps,
+    check_selfcheck,
+    check_shift,
+    check_supports,
+    check_zones,
+    l_0_for,
+    l_bd_of,
+    laps,
+    principal_bars,
+    resistance_knm,
+    slab_ends,
+)
+from tests.strip_factory.clauses import (
+    as_per_m,
+    bs8666_length_mm,
+    f_ck_of,
+    f_ctm,
+    f_yd,
+    flexure_as_req,
+    l_0_mm,
+    l_bd_mm,
+    m_rd_knm,
+    spacing_limit_mm,
+)
+from tests.strip_factory.generate import StripSpec, build_project, project_yaml, strip_specs
+
+__all__ = [
+    "ALL_CHECKS",
+    "StripSpec",
+    "as_per_m",
+    "bs8666_length_mm",
+    "build_project",
+    "check_bars",
+    "check_curtailment",
+    "check_detail",
+    "check_distribution",
+    "check_laps",
+    "check_selfcheck",
+    "check_shift",
+    "check_supports",
+    "check_zones",
+    "f_ck_of",
+    "f_ctm",
+    "f_yd",
+    "flexure_as_req",
+    "l_0_for",
+    "l_0_mm",
+    "l_bd_mm",
+    "l_bd_of",
+    "laps",
+    "m_rd_knm",
+    "principal_bars",
+    "project_yaml",
+    "resistance_knm",
+    "slab_ends",
+    "spacing_limit_mm",
+    "strip_specs",
+]

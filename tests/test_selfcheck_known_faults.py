@@ -1,0 +1,124 @@
+"""Known detailing faults: strips the pipeline refuses with its own "self-check fails ... this is
+a detailing fault, please report it" message. Each test is the smallest reproduction found and
+is marked ``xfail(strict=True)``: it starts to XPASS (and so to fail) when the fault is fixed;
+then drop the marker.
+
+Expected behaviour, EN 1992-1-1:2004, 9.2.1.3(1)-(3) with Fig. 9.2: the resistance envelope of
+the bars provided, built up over l_bd from each bar end (measured from the face where a bar
+passes into a support, 9.2.1.4(3)), covers the tensile-force envelope (the M_Ed envelope
+shifted by a_l = d). Otherwise the pipeline should choose other bars or details, or refuse with
+a message naming a user action, never "this is a detailing fault".
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from hypothesis import Phase, given, settings
+
+from detailer.errors import DesignError
+from detailer.pipeline import default_code, detail_strip
+from tests.strip_factory import StripSpec, build_project, strip_specs
+
+FAULT = "this is a detailing fault"
+
+
+def _run(spec: StripSpec):
+    project = build_project(spec)
+    return project, detail_strip(project, project.strips[0], default_code(project))
+
+
+def _envelope_at(spec: StripSpec, x_mm: float) -> tuple[float, float]:
+    """(max, min) ULS moment at x from the analysis (the analysis is not under test here)."""
+    from detailer.strip_analysis import analyse_strip
+
+    project = build_project(spec)
+    env = analyse_strip(project, project.strips[0]).uls
+    xs = env.stations.x_mm
+    i = int(np.argmin(np.abs(xs - x_mm)))
+    return float(env.m_max_knm[i]), float(env.m_min_knm[i])
+
+
+# Fault 1: three pinned spans 2.5, 3.0, 6.0 m. Loading the long span lifts the short ones: the
+# ULS envelope sags at support B (m_max(B) = +1.8 kNm/m). The bottom bars of spans 1 and 2
+# both stop 10 phi past the faces of B (9.2.1.5(1)), i.e. butt at the centreline x = 2500,
+# so M_Rd = 0 where the shifted M_Ed is 4.0 kNm/m.
+FAULT_1 = StripSpec(
+    spans_mm=(2500, 3000, 6000), thickness_mm=200, g_k_kn_per_m2=1.0, q_k_kn_per_m2=3.0,
+    support_width_mm=200,
+)  # fmt: skip
+
+
+def test_fault_1_premise_sagging_at_internal_support():
+    m_max, _ = _envelope_at(FAULT_1, 2500.0)
+    assert m_max > 1.0  # sagging at the support: bottom steel is needed across it
+
+
+@pytest.mark.xfail(
+    strict=True,
+    raises=DesignError,
+    reason="fault 1: bottom bars stop 10 phi past internal support faces even where the "
+    "envelope sags at the support (M_Rd = 0 at support B, x = 2500)",
+)
+def test_fault_1_bottom_steel_across_a_sagging_internal_support():
+    _, detail = _run(FAULT_1)
+    assert detail.selfcheck.ok
+
+
+# Fault 2: a monolithic end with h = 260 (top bars in poor bond, Fig. 8.2): top H12@200 L-bars
+# with 225 mm of bar from the slab end to the face plus a 210 mm leg, 435 mm < l_bd = 513 mm,
+# give 45.3 kNm/m at the face of A (x = 125) against the design moment 52.4 kNm/m.
+FAULT_2 = StripSpec(
+    spans_mm=(7000, 7000), thickness_mm=260, g_k_kn_per_m2=1.5, q_k_kn_per_m2=3.0,
+    left_end="monolithic",
+)  # fmt: skip
+
+
+@pytest.mark.xfail(
+    strict=True,
+    raises=DesignError,
+    reason="fault 2: top L-bars at a monolithic end are not checked for l_bd from the face "
+    "(435 mm of bar incl. leg < l_bd 513 mm; utilisation 1.16 at x = 125)",
+)
+def test_fault_2_top_bars_anchored_at_monolithic_end():
+    _, detail = _run(FAULT_2)
+    assert detail.selfcheck.ok
+
+
+# Fault 3: a 2.5 m span fixed at its far end beside a 7 m span: loading the long span makes the
+# fixed end C sag (m_max(C) = +27.2 kNm/m). Straight bottom bars H10@225 have 225 mm from the
+# face of C to their end, < l_bd = 277 mm: 25.8 < 27.2 kNm/m at the face (x = 9375).
+FAULT_3 = StripSpec(
+    spans_mm=(7000, 2500), thickness_mm=250, g_k_kn_per_m2=1.5, q_k_kn_per_m2=3.0,
+    right_end="monolithic",
+)  # fmt: skip
+
+
+def test_fault_3_premise_fixed_end_sags():
+    m_max, _ = _envelope_at(FAULT_3, 9500.0)
+    assert m_max > 20.0
+
+
+@pytest.mark.xfail(
+    strict=True,
+    raises=DesignError,
+    reason="fault 3: bottom bars at a monolithic end where the envelope sags are straight and "
+    "not anchored for the face moment (225 mm < l_bd 277 mm; utilisation 1.06 at x = 9375)",
+)
+def test_fault_3_bottom_bars_anchored_at_sagging_fixed_end():
+    _, detail = _run(FAULT_3)
+    assert detail.selfcheck.ok
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason="faults 1-3: random strips still meet the pipeline's own 'detailing fault' refusal",
+)
+@settings(max_examples=40, phases=[Phase.explicit, Phase.generate])  # no shrinking
+@given(strip_specs())
+def test_no_random_strip_meets_a_detailing_fault(spec):
+    project = build_project(spec)
+    try:
+        detail_strip(project, project.strips[0], default_code(project))
+    except DesignError as exc:
+        assert FAULT not in str(exc), str(exc)
