@@ -17,8 +17,8 @@ from detailer import CAUTION, __version__
 from detailer.codes.en1990 import category_description
 from detailer.errors import DesignError, InputError, ProjectError
 from detailer.model import EndKind, Project, Segment, Strip
-from detailer.project import load_project
 from detailer.pipeline import default_code, detail_strip
+from detailer.project import load_project
 from detailer.strip_analysis import StripAnalysis, analyse_strip
 from detailer.summary import design_lines
 
@@ -127,8 +127,7 @@ def _audit(drawing: str, schedule: str, out: TextIO, err: TextIO) -> int:
     except InputError as exc:
         print(str(exc), file=err)
         return EXIT_INPUT_ERROR
-    for finding in report.findings:
-        out.write(f"{finding}\n")
+    out.writelines(f"{finding}\n" for finding in report.findings)
     if report.ok:
         out.write(f"OK: {drawing} agrees with {schedule}\n")
     else:
@@ -157,7 +156,9 @@ def _build(path: str, out_dir: str | None, out: TextIO, err: TextIO) -> int:
         return EXIT_INPUT_ERROR
     detail = result.detail
     out.write(f"slabwright {__version__} build: {path}\n")
-    out.write(f"Project {detail.project.id}: {detail.project.title} (revision {detail.project.revision})\n")
+    out.write(
+        f"Project {detail.project.id}: {detail.project.title} (revision {detail.project.revision})\n"
+    )
     for sd in detail.strips:
         sc = sd.selfcheck
         n_bars = sum(b.count for b in sd.bar_sets)
@@ -168,8 +169,7 @@ def _build(path: str, out_dir: str | None, out: TextIO, err: TextIO) -> int:
         )
     total = sum(line.mass_kg for line in result.schedule.summary)
     out.write(f"  total mass of reinforcement {total:.1f} kg\n")
-    for name, _ in result.files:
-        out.write(f"  wrote {folder / name}\n")
+    out.writelines(f"  wrote {folder / name}\n" for name, _ in result.files)
     out.write(CAUTION + "\n")
     return EXIT_OK
 

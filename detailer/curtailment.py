@@ -23,14 +23,15 @@ through the ``DesignCode`` and the anchorage table.
 
 from __future__ import annotations
 
+import itertools
 import math
 from dataclasses import dataclass, replace
 
 import numpy as np
 
+from detailer import simplified
 from detailer.codes.base import ConcreteSteel, DesignCode
 from detailer.demand import DemandCurve, intervals_above
-from detailer import simplified
 from detailer.design import B_MM, ZoneSpec, as_per_m
 from detailer.errors import DesignError
 from detailer.layout import BarRole, BarSet, Face, ZoneDesign
@@ -38,6 +39,7 @@ from detailer.model import Project, Strip
 from detailer.schedule import bar_count, principal_bar_count
 from detailer.shapes import detailing as shape_helpers
 from detailer.shapes.bs8666 import ScheduledShape, make_shape
+from detailer.shapes.table2 import bending_limits
 
 #: A staged (alternate-bar) layout is used only when group b is at most this share of group a's
 #: length; otherwise one group runs the whole zone (common practice: the saving must be real).
@@ -45,6 +47,9 @@ STAGING_MAX_LENGTH_RATIO = 0.85
 #: The area of maximum moment, where the tighter spacing limit of 9.3.1.1(3) applies, is taken as
 #: where the demand is at least this share of the zone's peak (common practice).
 MAX_MOMENT_AREA_SHARE = 0.5
+#: Sagging demand (kNm per m) near an internal support above which bottom bars are lapped
+#: across it rather than stopped 10 phi past the faces (below it: rounding noise).
+SAGGING_AT_SUPPORT_KNM = 0.05
 #: U-bars at a free edge: legs of 2h along the slab (EN 1992-1-1 Fig. 9.8; from memory).
 U_BAR_LEG_OVER_H = 2.0
 
@@ -124,9 +129,26 @@ def m_rd_knm_per_m(code: DesignCode, mat: ConcreteSteel, as_mm2_per_m: float, d_
     return code.moment_resistance(as_mm2_per_m, B_MM, d_mm, mat)
 
 
-def _leg_depth_mm(strip: Strip) -> float:
-    """Out-to-out leg of an L-bar turned into a support, kept within the slab depth."""
-    return 5.0 * math.floor((strip.thickness_mm - strip.cover_top_mm - strip.cover_bottom_mm) / 5.0)
+def leg_mm(strip: Strip, phi_mm: int) -> float:
+    """Out-to-out leg of an L-bar turned into an end support: the slab depth less both covers,
+    but never shorter than the minimum end projection P of BS 8666:2005, Table 2 (a longer
+    leg runs on into the beam or wall below the slab)."""
+    inside = 5.0 * math.floor(
+        (strip.thickness_mm - strip.cover_top_mm - strip.cover_bottom_mm) / 5.0
+    )
+    return max(inside, float(bending_limits(int(phi_mm)).p_mm))
+
+
+def end_face_mm(strip: Strip, i: int) -> float:
+    """Inner face of end support i (where anchorage is measured from, 9.2.1.4(3))."""
+    sup = strip.supports[i]
+    return sup.x_mm + sup.width_mm / 2 if i == 0 else sup.x_mm - sup.width_mm / 2
+
+
+def straight_past_face_mm(strip: Strip, geom: StripGeometry, i: int) -> float:
+    """Length of bar from the inner face of end support i to the bar end inside the cover."""
+    face = end_face_mm(strip, i)
+    return face - geom.bar_left_mm if i == 0 else geom.bar_right_mm - face
 
 
 def _interval_containing(
@@ -175,7 +197,7 @@ def principal_runs(
     l_bd = anch.lbd(phi, face)
     layer = "T1" if face is Face.TOP else "B1"
     sups = strip.supports
-    leg = _leg_depth_mm(strip)
+    leg = leg_mm(strip, phi)
     rules = code.detailing_rules()
 
     # --- group a extent and end details
@@ -183,8 +205,19 @@ def principal_runs(
         seg = strip.segments[spec.segment]
         left_sup = _support_at(strip, seg.x_start_mm)
         right_sup = _support_at(strip, seg.x_end_mm)
-        a0, left_leg = _bottom_end(strip, geom, left_sup, phi, side="left")
-        a1, right_leg = _bottom_end(strip, geom, right_sup, phi, side="right")
+        ends = {
+            "strip": strip,
+            "geom": geom,
+            "phi": phi,
+            "curve": curve,
+            "code": code,
+            "mat": mat,
+            "anch": anch,
+            "d_mm": zone.d_mm,
+            "half_as": as_per_m(phi, 2 * s),
+        }
+        a0, left_leg = _bottom_end(i=left_sup, side="left", **ends)
+        a1, right_leg = _bottom_end(i=right_sup, side="right", **ends)
     elif spec.kind == "cantilever-bottom":
         seg = strip.segments[spec.segment]
         if seg.index == 0:  # left cantilever: tip on the left, root support on the right
@@ -232,6 +265,24 @@ def principal_runs(
     if simplified_rules and spec.kind in ("span", "support"):
         simple = _simplified_runs(spec, zone, strip, geom, layer, a0, a1, left_leg, right_leg)
         if simple is not None:
+            # The rules' extents are minimums: where the shifted envelope needs a bar further
+            # (e.g. an interior span hogging under alternate-span loading), it goes further.
+            env = principal_runs(
+                spec,
+                zone,
+                strip=strip,
+                geom=geom,
+                curve=curve,
+                code=code,
+                mat=mat,
+                anch=anch,
+                as_min_mm2_per_m=as_min_mm2_per_m,
+                simplified_rules=False,
+            )
+            env_a, env_b = env[0], env[-1]
+            simple = tuple(
+                _widen(r, e) for r, e in zip(simple, (env_a, env_b if len(env) == 2 else env_a))
+            )
             if len(simple) == 2 and 2 * s > s_general + 1e-9:
                 # alternate bars would be too far apart: all bars take the longer extent
                 a = simple[0]
@@ -247,9 +298,7 @@ def principal_runs(
     if staged:
         m_rd_a = m_rd_knm_per_m(code, mat, half_as, zone.d_mm)
         need = _union_in(curve, m_rd_a, a0, a1)
-        peak_area = _union_in(
-            curve, MAX_MOMENT_AREA_SHARE * zone.m_ed_knm_per_m, a0, a1
-        )
+        peak_area = _union_in(curve, MAX_MOMENT_AREA_SHARE * zone.m_ed_knm_per_m, a0, a1)
         parts = [p for p in (need, peak_area) if p is not None]
         if parts:
             b0 = max(a0, min(p[0] for p in parts) - l_bd)
@@ -260,15 +309,66 @@ def principal_runs(
             staged = False
     if not staged:
         return (
-            Run(f"{zone.zone_id}", zone.zone_id, face, layer, phi, s, 0.0, a0, a1,
-                BarEnds(left_leg, right_leg)),
+            Run(
+                f"{zone.zone_id}",
+                zone.zone_id,
+                face,
+                layer,
+                phi,
+                s,
+                0.0,
+                a0,
+                a1,
+                BarEnds(left_leg, right_leg),
+            ),
         )
     legs_b = BarEnds(left_leg if b0 <= a0 + 1e-6 else 0.0, right_leg if b1 >= a1 - 1e-6 else 0.0)
     return (
-        Run(f"{zone.zone_id}-a", zone.zone_id, face, layer, phi, 2 * s, 0.0, a0, a1,
-            BarEnds(left_leg, right_leg), "alternate bars, full length"),
-        Run(f"{zone.zone_id}-b", zone.zone_id, face, layer, phi, 2 * s, float(s), b0, b1,
-            legs_b, "alternate bars, curtailed"),
+        Run(
+            f"{zone.zone_id}-a",
+            zone.zone_id,
+            face,
+            layer,
+            phi,
+            2 * s,
+            0.0,
+            a0,
+            a1,
+            BarEnds(left_leg, right_leg),
+            "alternate bars, full length",
+        ),
+        Run(
+            f"{zone.zone_id}-b",
+            zone.zone_id,
+            face,
+            layer,
+            phi,
+            2 * s,
+            float(s),
+            b0,
+            b1,
+            legs_b,
+            "alternate bars, curtailed",
+        ),
+    )
+
+
+def _widen(rule: Run, envelope: Run) -> Run:
+    """A run of the simplified rules stretched to cover the envelope method's run."""
+    x0 = min(rule.x_start_mm, envelope.x_start_mm)
+    x1 = max(rule.x_end_mm, envelope.x_end_mm)
+    if x0 >= rule.x_start_mm - 1e-6 and x1 <= rule.x_end_mm + 1e-6:
+        return rule
+    ends = BarEnds(
+        envelope.ends.left_leg_mm if x0 < rule.x_start_mm else rule.ends.left_leg_mm,
+        envelope.ends.right_leg_mm if x1 > rule.x_end_mm else rule.ends.right_leg_mm,
+    )
+    return replace(
+        rule,
+        x_start_mm=x0,
+        x_end_mm=x1,
+        ends=ends,
+        note=rule.note + "; extended where the shifted envelope needs it",
     )
 
 
@@ -296,10 +396,32 @@ def _simplified_runs(spec, zone, strip, geom, layer, a0, a1, left_leg, right_leg
         left_leg = right_leg = 0.0
     note = f"simplified rules, {simplified.SIMPLIFIED_SOURCE}"
     return (
-        Run(f"{zone.zone_id}-a", zone.zone_id, face, layer, phi, 2 * s, 0.0, a0, a1,
-            BarEnds(left_leg, right_leg), "alternate bars, full length; " + note),
-        Run(f"{zone.zone_id}-b", zone.zone_id, face, layer, phi, 2 * s, float(s), max(b0, a0),
-            min(b1, a1), BarEnds(), "alternate bars, curtailed; " + note),
+        Run(
+            f"{zone.zone_id}-a",
+            zone.zone_id,
+            face,
+            layer,
+            phi,
+            2 * s,
+            0.0,
+            a0,
+            a1,
+            BarEnds(left_leg, right_leg),
+            "alternate bars, full length; " + note,
+        ),
+        Run(
+            f"{zone.zone_id}-b",
+            zone.zone_id,
+            face,
+            layer,
+            phi,
+            2 * s,
+            float(s),
+            max(b0, a0),
+            min(b1, a1),
+            BarEnds(),
+            "alternate bars, curtailed; " + note,
+        ),
     )
 
 
@@ -313,23 +435,62 @@ def _support_at(strip: Strip, x_mm: float) -> int:
 def _adjacent_span(strip: Strip, support_index: int):
     x = strip.supports[support_index].x_mm
     for seg in strip.segments:
-        if not seg.is_cantilever and (abs(seg.x_start_mm - x) < 1e-6 or abs(seg.x_end_mm - x) < 1e-6):
+        if not seg.is_cantilever and (
+            abs(seg.x_start_mm - x) < 1e-6 or abs(seg.x_end_mm - x) < 1e-6
+        ):
             return seg
     raise ValueError("end support without a span")
 
 
 def _is_end_support(strip: Strip, i: int) -> bool:
     last = len(strip.supports) - 1
-    return (i == 0 and not strip.has_left_cantilever) or (i == last and not strip.has_right_cantilever)
+    return (i == 0 and not strip.has_left_cantilever) or (
+        i == last and not strip.has_right_cantilever
+    )
 
 
-def _bottom_end(strip: Strip, geom: StripGeometry, i: int, phi: int, side: str) -> tuple[float, float]:
-    """Where span bottom bars end at support i: to the slab end at end supports (anchored
-    there, checked later), else 10 phi past the face (9.2.1.5(1))."""
+def _bottom_end(
+    *,
+    strip: Strip,
+    geom: StripGeometry,
+    i: int,
+    phi: int,
+    side: str,
+    curve: DemandCurve,
+    code: DesignCode,
+    mat: ConcreteSteel,
+    anch: Anchorages,
+    d_mm: float,
+    half_as: float,
+) -> tuple[float, float]:
+    """Where span bottom bars end at support i, and the leg turned up there (0: straight).
+
+    End supports: to the slab end. The bars are turned up into an L where the demand at the
+    face needs more anchorage than the straight length past the face gives, the resistance
+    being built up over l_bd from the bar end (EN 1992-1-1:2004, 9.2.1.3(3), 9.2.1.4(3)).
+    Internal supports: at least 10 phi past the face (9.2.1.5(1)); where the envelope sags at
+    the support the bars of both spans run on to lap over it by l_0 (8.7.3).
+    """
     sup = strip.supports[i]
+    l_bd = anch.lbd(phi, Face.BOTTOM)
     if _is_end_support(strip, i):
-        return (geom.bar_left_mm if side == "left" else geom.bar_right_mm), 0.0
-    reach = max(10.0 * phi, 0.0)
+        face = end_face_mm(strip, i)
+        demand = float(curve.shifted_at(face))
+        straight = straight_past_face_mm(strip, geom, i)
+        capacity = m_rd_knm_per_m(code, mat, half_as, d_mm) * min(1.0, straight / l_bd)
+        leg = leg_mm(strip, phi) if demand > capacity + 1e-9 else 0.0
+        return (geom.bar_left_mm if side == "left" else geom.bar_right_mm), leg
+    reach = 10.0 * phi
+    own_face = sup.x_mm - sup.width_mm / 2 if side == "right" else sup.x_mm + sup.width_mm / 2
+    at_face = float(curve.shifted_at(own_face))
+    sel = (curve.x_mm >= sup.x_mm - sup.width_mm / 2 - 1e-6) & (
+        curve.x_mm <= sup.x_mm + sup.width_mm / 2 + 1e-6
+    )
+    within = float(np.max(curve.m_shifted_knm_per_m[sel])) if np.any(sel) else 0.0
+    # bars stopped 10 phi past the face build up only 10 phi / l_bd of their resistance there
+    carried = m_rd_knm_per_m(code, mat, half_as, d_mm) * min(1.0, reach / l_bd)
+    if within > SAGGING_AT_SUPPORT_KNM or at_face > carried + 1e-9:
+        reach = max(reach, (anch.l0_all(phi, Face.BOTTOM) + sup.width_mm) / 2)
     if side == "left":
         return sup.x_mm + sup.width_mm / 2 - reach, 0.0
     return sup.x_mm - sup.width_mm / 2 + reach, 0.0
@@ -404,7 +565,7 @@ def split_for_stock(
 
 def lap_centres_mm(pieces: tuple[Run, ...]) -> tuple[float, ...]:
     """Centres of the laps between consecutive pieces of one run."""
-    return tuple(0.5 * (a.x_end_mm + b.x_start_mm) for a, b in zip(pieces, pieces[1:]))
+    return tuple(0.5 * (a.x_end_mm + b.x_start_mm) for a, b in itertools.pairwise(pieces))
 
 
 def split_zone_runs(
@@ -421,7 +582,9 @@ def split_zone_runs(
         r = runs[0]
         note = "alternate bars, laps staggered"
         runs = (
-            replace(r, set_id=f"{r.set_id}-a", spacing_mm=2 * r.spacing_mm, offset_mm=0.0, note=note),
+            replace(
+                r, set_id=f"{r.set_id}-a", spacing_mm=2 * r.spacing_mm, offset_mm=0.0, note=note
+            ),
             replace(
                 r,
                 set_id=f"{r.set_id}-b",
@@ -434,7 +597,11 @@ def split_zone_runs(
     centres: tuple[float, ...] = ()
     for r in runs:
         pieces = split_for_stock(
-            r, stock_mm=stock_mm, lap_mm=lap_mm, curve=curve, avoid_mm=centres,
+            r,
+            stock_mm=stock_mm,
+            lap_mm=lap_mm,
+            curve=curve,
+            avoid_mm=centres,
             min_gap_mm=1.3 * lap_mm,
         )
         centres = centres + lap_centres_mm(pieces)
@@ -476,8 +643,6 @@ def _r5(v: float) -> int:
 
 def run_to_barset(run: Run, strip: Strip, bar_type: str, rules) -> BarSet:
     shape = run_shape(run, bar_type, rules)
-    if run.face is Face.TOP:
-        shape_helpers.fits_section(shape, strip.thickness_mm, strip.cover_top_mm, strip.cover_bottom_mm)
     count = _principal_count(strip, run.spacing_mm, run.offset_mm)
     return BarSet(
         strip_id=strip.id,
@@ -509,8 +674,13 @@ def u_bar_set(
     """U-bars closing a free cantilever edge (EN 1992-1-1:2004, 9.3.1.4(1))."""
     leg = U_BAR_LEG_OVER_H * strip.thickness_mm
     shape = shape_helpers.u_bar(
-        top_zone.phi_mm, strip.thickness_mm, strip.cover_top_mm, strip.cover_bottom_mm, leg,
-        bar_type=bar_type, rules=rules,
+        top_zone.phi_mm,
+        strip.thickness_mm,
+        strip.cover_top_mm,
+        strip.cover_bottom_mm,
+        leg,
+        bar_type=bar_type,
+        rules=rules,
     )
     x0 = geom.bar_left_mm if at_left else geom.bar_right_mm - shape.dim("A")
     return BarSet(

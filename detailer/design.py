@@ -14,6 +14,7 @@ requirement at least steel area (hence least mass), within the spacing rules
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from detailer.bars import bar_area_mm2
@@ -127,7 +128,9 @@ def zone_specs(
     covered: set[int] = set()
     for x0, x1 in intervals_above(top.x_mm, top.m_knm_per_m, 1e-6):
         inside = tuple(
-            i for i, s in enumerate(sups) if x0 - s.width_mm / 2 - 1 <= s.x_mm <= x1 + s.width_mm / 2 + 1
+            i
+            for i, s in enumerate(sups)
+            if x0 - s.width_mm / 2 - 1 <= s.x_mm <= x1 + s.width_mm / 2 + 1
         )
         m, x = top.peak_in(x0, x1)
         mq, _ = top_qp.peak_in(x0, x1)
@@ -214,17 +217,20 @@ def choose_bars(
     as_extra_mm2_per_m: float = 0.0,
     extra_reason: str = "",
     fixed: tuple[int, int] | None = None,
+    extra_checks: Callable[[int, int, float, float], list[Check]] | None = None,
 ) -> BarChoice:
-    """Pick the bars of one zone (or check the user's fixed bars)."""
+    """Pick the bars of one zone (or check the user's fixed bars).
+
+    ``extra_checks(phi, spacing, as_prov, d)`` adds checks that depend on the bars (e.g. the
+    anchorage at an end support); a candidate must pass them too.
+    """
     h = strip.thickness_mm
     cover = strip.cover_top_mm if spec.face is Face.TOP else strip.cover_bottom_mm
     opts = project.reinforcement
     s_max = code.max_spacing(h, principal=True, high_moment_zone=spec.kind in ("span", "support"))
     w_max = code.w_max(project.materials.exposure_class)
     as_max = code.as_max(B_MM, h)
-    candidates = (
-        [fixed] if fixed else [(p, s) for p in opts.diameters_mm for s in opts.spacings_mm]
-    )
+    candidates = [fixed] if fixed else [(p, s) for p in opts.diameters_mm for s in opts.spacings_mm]
     best: tuple[tuple, BarChoice] | None = None
     reasons: list[str] = []
     for phi, s in candidates:
@@ -233,7 +239,9 @@ def choose_bars(
         as_req = 0.0
         if spec.m_ed_knm_per_m > 0:
             try:
-                flex = code.flexure(spec.m_ed_knm_per_m, B_MM, d, mat, delta if spec.kind == "support" else 1.0)
+                flex = code.flexure(
+                    spec.m_ed_knm_per_m, B_MM, d, mat, delta if spec.kind == "support" else 1.0
+                )
             except CompressionSteelRequired as exc:
                 reasons.append(str(exc))
                 continue
@@ -257,9 +265,31 @@ def choose_bars(
                 "mm2/m",
                 as_prov >= as_design - 1e-9,
             ),
-            Check("A_s,prov <= A_s,max", "EN 1992-1-1:2004, 9.2.1.1(3)", as_prov, as_max, "mm2/m", as_prov <= as_max),
+            Check(
+                "A_s,prov <= A_s,max",
+                "EN 1992-1-1:2004, 9.2.1.1(3)",
+                as_prov,
+                as_max,
+                "mm2/m",
+                as_prov <= as_max,
+            ),
             Check("bar spacing", "EN 1992-1-1:2004, 9.3.1.1(3)", s, s_max, "mm", s <= s_max + 1e-9),
         ]
+        need_cover = code.cover(
+            phi, project.materials.exposure_class, "S4", opts.max_aggregate_mm
+        ).c_nom
+        checks.append(
+            Check(
+                "nominal cover for the bar size",
+                "EN 1992-1-1:2004, 4.4.1",
+                need_cover,
+                cover,
+                "mm",
+                need_cover <= cover + 1e-9,
+            )
+        )
+        if extra_checks is not None:
+            checks.extend(extra_checks(phi, s, as_per_m(phi, s), d))
         if spec.m_ed_knm_per_m > 0 and spec.m_qp_knm_per_m > 0 and as_req > 0:
             sigma_s = code.steel_stress_qp(
                 mat, spec.m_qp_knm_per_m, spec.m_ed_knm_per_m, as_req, as_prov, delta
@@ -294,7 +324,11 @@ def choose_bars(
         if best is None or key < best[0]:
             best = (key, choice)
     if best is None:
-        why = reasons[0] if reasons else "no allowed size and spacing satisfies area, spacing and crack rules"
+        why = (
+            reasons[0]
+            if reasons
+            else "no allowed size and spacing satisfies area, spacing and crack rules"
+        )
         raise DesignError(
             f"strip {strip.id}: zone {spec.zone_id} ({spec.description}), M_Ed = "
             f"{spec.m_ed_knm_per_m:.1f} kNm/m: {why}; thicken the slab or allow more bar sizes and spacings"
@@ -316,7 +350,9 @@ def _crack_check(lim, phi: int, s: int, sigma_s: float, w_max: float) -> Check:
         options.append((s / lim.s_max, s, lim.s_max, "mm spacing", "Table 7.3N"))
     stress = f"sigma_s = {sigma_s:.0f} N/mm2 (quasi-permanent), w_max = {w_max:g} mm"
     if not options:
-        return Check(name, clause, sigma_s, 0.0, "N/mm2", False, note=stress + ": beyond the tables")
+        return Check(
+            name, clause, sigma_s, 0.0, "N/mm2", False, note=stress + ": beyond the tables"
+        )
     _, demand, limit, unit, table = min(options)
     return Check(
         name,

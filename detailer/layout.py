@@ -108,7 +108,9 @@ class BarSet:
     @property
     def callout(self) -> str:
         """The trade's bar callout: number, type and size, mark, spacing, layer (e.g. 25H12-03-200 B1)."""
-        return f"{self.count}{self.bar_type}{self.phi_mm}-{self.mark}-{self.spacing_mm} {self.layer}"
+        return (
+            f"{self.count}{self.bar_type}{self.phi_mm}-{self.mark}-{self.spacing_mm} {self.layer}"
+        )
 
 
 @dataclass(frozen=True, slots=True)

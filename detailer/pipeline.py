@@ -6,9 +6,11 @@
 
 from __future__ import annotations
 
+import itertools
 import math
 from dataclasses import replace
 
+from detailer import simplified
 from detailer.codes.base import (
     AnchorageCase,
     BondCondition,
@@ -21,9 +23,12 @@ from detailer.curtailment import (
     Anchorages,
     StripGeometry,
     distribution_set,
+    end_face_mm,
+    leg_mm,
     principal_runs,
     run_to_barset,
     split_zone_runs,
+    straight_past_face_mm,
     u_bar_set,
 )
 from detailer.demand import DemandCurve, build_curve, make_grid
@@ -45,7 +50,6 @@ from detailer.layout import (
     StripDetail,
     ZoneDesign,
 )
-from detailer import simplified
 from detailer.model import Curtailment, EndKind, Project, Strip
 from detailer.selfcheck import face_resistance, self_check
 from detailer.shapes.bs8666 import ShapeError
@@ -69,7 +73,9 @@ def detail_project(project: Project, code: DesignCode | None = None) -> ProjectD
     return ProjectDetail(project=project, strips=strips)
 
 
-def _caps(strip: Strip, sa: StripAnalysis, project: Project) -> tuple[tuple[float, float, float], ...]:
+def _caps(
+    strip: Strip, sa: StripAnalysis, project: Project
+) -> tuple[tuple[float, float, float], ...]:
     """Top-demand caps over the supports: the design support moment (5.3.2.2(3)/(4))."""
     opts = project.analysis
     caps = []
@@ -103,13 +109,20 @@ def _fixed_end_moment(strip: Strip, sa: StripAnalysis, support_index: int) -> fl
             abs(seg.x_start_mm - x) < 1e-6 or abs(seg.x_end_mm - x) < 1e-6
         ):
             continue
-        w = f.gamma_g_sup * strip.g_k_total_kn_per_m2(seg.index) + f.gamma_q * seg.loads.q_k_kn_per_m2
+        w = (
+            f.gamma_g_sup * strip.g_k_total_kn_per_m2(seg.index)
+            + f.gamma_q * seg.loads.q_k_kn_per_m2
+        )
         best = max(best, w * (seg.length_mm / 1000.0) ** 2 / 12.0)
     return best
 
 
 def _anchorages(
-    strip: Strip, project: Project, code: DesignCode, mat: ConcreteSteel, extra: tuple[int, ...] = ()
+    strip: Strip,
+    project: Project,
+    code: DesignCode,
+    mat: ConcreteSteel,
+    extra: tuple[int, ...] = (),
 ) -> Anchorages:
     """l_bd (full design stress, straight bar) and l_0 per allowed (or fixed) size and face."""
     l_bd, l_0, l_0_all = {}, {}, {}
@@ -163,13 +176,23 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
     caps = _caps(strip, sa, project)
     st = sa.uls.stations
     qp = sa.sls_quasi_permanent
-    top = build_curve(grid, st.x_mm, sa.uls.m_min_knm, hogging=True, caps=caps, a_l_mm=rules_d.a_l_over_d * d_top)
-    bottom = build_curve(grid, st.x_mm, sa.uls.m_max_knm, hogging=False, caps=(), a_l_mm=rules_d.a_l_over_d * d_bot)
+    top = build_curve(
+        grid, st.x_mm, sa.uls.m_min_knm, hogging=True, caps=caps, a_l_mm=rules_d.a_l_over_d * d_top
+    )
+    bottom = build_curve(
+        grid, st.x_mm, sa.uls.m_max_knm, hogging=False, caps=(), a_l_mm=rules_d.a_l_over_d * d_bot
+    )
     top_qp = build_curve(grid, qp.stations.x_mm, qp.m_min_knm, hogging=True, caps=caps, a_l_mm=0.0)
-    bottom_qp = build_curve(grid, qp.stations.x_mm, qp.m_max_knm, hogging=False, caps=(), a_l_mm=0.0)
+    bottom_qp = build_curve(
+        grid, qp.stations.x_mm, qp.m_max_knm, hogging=False, caps=(), a_l_mm=0.0
+    )
 
     specs = zone_specs(
-        strip, top, bottom, top_qp, bottom_qp,
+        strip,
+        top,
+        bottom,
+        top_qp,
+        bottom_qp,
         end_top_fraction=rules_d.end_support_top_fraction,
         top_extent_over_span=rules_d.top_extent_over_adjacent_span,
     )
@@ -181,13 +204,22 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
             f"strip {strip.id}: fixed_bars names zone {unknown[0]!r}, which this strip does not "
             f"have; its zones are {', '.join(s.zone_id for s in specs)}"
         )
+    anch = _anchorages(strip, project, code, mat, tuple(p for p, _ in fixed.values()))
     strip_checks: list[Check] = []
     zones: list[ZoneDesign] = []
     spec_by_zone: dict[str, ZoneSpec] = {}
     for spec in specs:
         user = fixed.get(spec.zone_id)
+        ends = _end_anchorage_rule(spec, strip, geom, top, bottom, code, mat, anch)
         choice = choose_bars(
-            spec, strip=strip, project=project, code=code, mat=mat, delta=delta, fixed=user
+            spec,
+            strip=strip,
+            project=project,
+            code=code,
+            mat=mat,
+            delta=delta,
+            fixed=user,
+            extra_checks=ends,
         )
         # Deflection, 7.4.2: span bottom zones and cantilever tops.
         seg = _deflection_segment(strip, spec)
@@ -202,7 +234,6 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
     simple = project.reinforcement.curtailment is Curtailment.SIMPLIFIED
     if simple:
         simplified.qualifies(strip)
-    anch = _anchorages(strip, project, code, mat, tuple(p for p, _ in fixed.values()))
     bar_type = m.bar_type
     shape_rules = _shape_rules(project)
     bar_sets: list[BarSet] = []
@@ -211,8 +242,16 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
             spec = spec_by_zone[z.zone_id]
             curve = top if z.face is Face.TOP else bottom
             runs = principal_runs(
-                spec, z, strip=strip, geom=geom, curve=curve, code=code, mat=mat, anch=anch,
-                as_min_mm2_per_m=z.as_min_mm2_per_m, simplified_rules=simple,
+                spec,
+                z,
+                strip=strip,
+                geom=geom,
+                curve=curve,
+                code=code,
+                mat=mat,
+                anch=anch,
+                as_min_mm2_per_m=z.as_min_mm2_per_m,
+                simplified_rules=simple,
             )
             pieces = split_zone_runs(
                 runs,
@@ -227,7 +266,9 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
                     bar_sets.append(u_bar_set(strip, z, geom, True, bar_type, shape_rules))
                 if strip.has_right_cantilever and z.x_to_mm >= geom.slab_right_mm - 1.0:
                     bar_sets.append(u_bar_set(strip, z, geom, False, bar_type, shape_rules))
-        bar_sets.extend(_distribution(strip, project, code, zones, bar_sets, anch, bar_type, shape_rules))
+        bar_sets.extend(
+            _distribution(strip, project, code, zones, bar_sets, anch, bar_type, shape_rules)
+        )
     except ShapeError as exc:
         raise DesignError(f"strip {strip.id}: {exc}") from None
 
@@ -236,10 +277,16 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
     strip_checks.extend(_cover_checks(strip, project, code, bar_sets))
     strip_checks.extend(_redistribution_checks(strip, project, code, mat, zones))
 
-    fr_top = face_resistance(tuple(bar_sets), Face.TOP, top, strip=strip, geom=geom, code=code, mat=mat, anch=anch)
-    fr_bot = face_resistance(tuple(bar_sets), Face.BOTTOM, bottom, strip=strip, geom=geom, code=code, mat=mat, anch=anch)
+    fr_top = face_resistance(
+        tuple(bar_sets), Face.TOP, top, strip=strip, geom=geom, code=code, mat=mat, anch=anch
+    )
+    fr_bot = face_resistance(
+        tuple(bar_sets), Face.BOTTOM, bottom, strip=strip, geom=geom, code=code, mat=mat, anch=anch
+    )
     sc = self_check(fr_top, fr_bot)
-    failed = [c for c in strip_checks if not c.ok] + [c for z in zones for c in z.checks if not c.ok]
+    failed = [c for c in strip_checks if not c.ok] + [
+        c for z in zones for c in z.checks if not c.ok
+    ]
     if failed:
         c = failed[0]
         raise DesignError(
@@ -262,13 +309,18 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
         AnchorageLength(
             phi_mm=phi,
             layer="T1" if face is Face.TOP else "B1",
-            bond=code.bond_condition(strip.thickness_mm, Layer.TOP if face is Face.TOP else Layer.BOTTOM).value,
+            bond=code.bond_condition(
+                strip.thickness_mm, Layer.TOP if face is Face.TOP else Layer.BOTTOM
+            ).value,
             f_bd_mpa=_f_bd(code, mat, strip, face),
             l_b_rqd_mm=_l_b_rqd(code, mat, strip, face, phi),
             l_bd_mm=anch.lbd(phi, face),
             l_0_mm=anch.l0(phi, face),
         )
-        for (phi, face) in sorted({(b.phi_mm, Face.TOP if b.layer.startswith("T") else Face.BOTTOM) for b in bar_sets}, key=lambda t: (t[1].value, t[0]))
+        for (phi, face) in sorted(
+            {(b.phi_mm, Face.TOP if b.layer.startswith("T") else Face.BOTTOM) for b in bar_sets},
+            key=lambda t: (t[1].value, t[0]),
+        )
     )
     return StripDetail(
         strip=strip,
@@ -279,6 +331,50 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
         selfcheck=sc,
         checks=tuple(strip_checks),
         resistance=(fr_top, fr_bot),
+    )
+
+
+def _end_anchorage_rule(spec, strip, geom, top, bottom, code, mat, anch):
+    """Check for bars ending in an end support: the resistance they build up from the bar end
+    over l_bd, through the straight length past the face plus a leg turned into the support,
+    must carry the shifted demand at the face (EN 1992-1-1:2004, 9.2.1.3(3) with 9.2.1.4(3))."""
+    last = len(strip.supports) - 1
+    ends = [i for i in (0, last) if _is_end(strip, i)]
+    face_of = {i: end_face_mm(strip, i) for i in ends}
+    touching = [i for i in ends if spec.x_from_mm - 1.0 <= face_of[i] <= spec.x_to_mm + 1.0]
+    if not touching or spec.kind == "cantilever-bottom":
+        return None
+    curve = top if spec.face is Face.TOP else bottom
+
+    def rule(phi: int, s: int, as_prov: float, d: float) -> list[Check]:
+        out = []
+        for i in touching:
+            demand = float(curve.shifted_at(face_of[i]))
+            if demand <= 0.05:
+                continue
+            length = straight_past_face_mm(strip, geom, i) + leg_mm(strip, phi)
+            l_bd = anch.lbd(phi, spec.face)
+            capacity = code.moment_resistance(as_prov, B_MM, d, mat) * min(1.0, length / l_bd)
+            out.append(
+                Check(
+                    f"anchorage into end support {strip.supports[i].label}",
+                    "EN 1992-1-1:2004, 9.2.1.3(3), 8.4.4",
+                    round(demand, 3),
+                    round(capacity, 3),
+                    "kNm/m",
+                    demand <= capacity + 1e-9,
+                    note=f"{length:.0f} mm of bar past the face (with leg) against l_bd = {l_bd:.0f} mm",
+                )
+            )
+        return out
+
+    return rule
+
+
+def _is_end(strip: Strip, i: int) -> bool:
+    last = len(strip.supports) - 1
+    return (i == 0 and not strip.has_left_cantilever) or (
+        i == last and not strip.has_right_cantilever
     )
 
 
@@ -308,7 +404,10 @@ def _deflection_segment(strip: Strip, spec: ZoneSpec):
         return strip.segments[spec.segment]
     if spec.kind == "support" and spec.face is Face.TOP:
         for seg in strip.segments:
-            if seg.is_cantilever and spec.x_from_mm <= 0.5 * (seg.x_start_mm + seg.x_end_mm) <= spec.x_to_mm:
+            if (
+                seg.is_cantilever
+                and spec.x_from_mm <= 0.5 * (seg.x_start_mm + seg.x_end_mm) <= spec.x_to_mm
+            ):
                 return seg
     return None
 
@@ -322,7 +421,9 @@ def _deflection(spec, choice, seg, strip, project, code, mat, delta, can_add=Tru
     def evaluate(ch):
         # rho from the governing requirement (A_s,min included): never below the real ratio.
         as_basis = max(ch.as_req_mm2_per_m, ch.as_design_mm2_per_m, 1e-6)
-        res = code.span_depth_limit(span_type, mat, as_basis, ch.as_prov_mm2_per_m, B_MM, ch.d_mm, l_eff)
+        res = code.span_depth_limit(
+            span_type, mat, as_basis, ch.as_prov_mm2_per_m, B_MM, ch.d_mm, l_eff
+        )
         return res, l_eff / ch.d_mm
 
     res, actual = evaluate(choice)
@@ -333,7 +434,12 @@ def _deflection(spec, choice, seg, strip, project, code, mat, delta, can_add=Tru
         if can_add and need_factor <= 1.5 + 1e-9:
             extra = need_factor * as_req
             choice = choose_bars(
-                spec, strip=strip, project=project, code=code, mat=mat, delta=delta,
+                spec,
+                strip=strip,
+                project=project,
+                code=code,
+                mat=mat,
+                delta=delta,
                 as_extra_mm2_per_m=extra,
                 extra_reason="deflection, A_s,prov/A_s,req for EN 1992-1-1:2004, 7.4.2(2)",
             )
@@ -362,11 +468,18 @@ def _distribution(strip, project, code, zones, bar_sets, anch, bar_type, rules) 
         x1 = max(b.x_end_mm for b in principal)
         out.extend(
             distribution_set(
-                strip, project, code,
-                set_id=f"{z.zone_id}-D", zone_id=z.zone_id, face=z.face,
-                x_start_mm=x0, x_end_mm=x1,
+                strip,
+                project,
+                code,
+                set_id=f"{z.zone_id}-D",
+                zone_id=z.zone_id,
+                face=z.face,
+                x_start_mm=x0,
+                x_end_mm=x1,
                 as_principal_mm2_per_m=z.as_prov_mm2_per_m,
-                bar_type=bar_type, rules=rules, lap_for=anch.l0_all,
+                bar_type=bar_type,
+                rules=rules,
+                lap_for=anch.l0_all,
             )
         )
     return out
@@ -389,21 +502,40 @@ def _end_anchorage_checks(strip, sa, code, mat, zones, bar_sets, geom, anch) -> 
         node = i + offset
         v_ed = abs(float(sa.uls.reactions_max_kn[node]))
         bars = [
-            b for b in bar_sets
-            if b.layer == "B1" and (
+            b
+            for b in bar_sets
+            if b.layer == "B1"
+            and (
                 (side == "left" and abs(b.x_start_mm - geom.bar_left_mm) < 1.0)
                 or (side == "right" and abs(b.x_end_mm - geom.bar_right_mm) < 1.0)
             )
         ]
         if not bars:
-            checks.append(Check(f"bottom bars into end support {sup.label}", "EN 1992-1-1:2004, 9.3.1.2(1)", 1, 0, "-", False, "no bottom bars reach the support"))
+            checks.append(
+                Check(
+                    f"bottom bars into end support {sup.label}",
+                    "EN 1992-1-1:2004, 9.3.1.2(1)",
+                    1,
+                    0,
+                    "-",
+                    False,
+                    "no bottom bars reach the support",
+                )
+            )
             continue
         b = bars[0]
         zone = next(z for z in zones if z.zone_id == b.zone_id)
         area = sum(x.phi_mm**2 * 3.141592653589793 / 4 * 1000.0 / x.spacing_mm for x in bars)
         share = area / zone.as_prov_mm2_per_m
         checks.append(
-            Check(f"bottom steel carried into end support {sup.label}", "EN 1992-1-1:2004, 9.3.1.2(1)", 0.5, round(share, 3), "share of span steel", share >= 0.5 - 1e-9)
+            Check(
+                f"bottom steel carried into end support {sup.label}",
+                "EN 1992-1-1:2004, 9.3.1.2(1)",
+                0.5,
+                round(share, 3),
+                "share of span steel",
+                share >= 0.5 - 1e-9,
+            )
         )
         a_l = zone.d_mm
         f_e_kn = v_ed * a_l / zone.z_mm
@@ -464,7 +596,9 @@ def _shear_checks(strip, sa, code, mat, zones) -> list[Check]:
                     round(v_rd, 2),
                     "kN/m",
                     v_ed <= v_rd + 1e-9,
-                    note="" if v_ed <= v_rd else "the slab would need shear reinforcement; thicken it",
+                    note=""
+                    if v_ed <= v_rd
+                    else "the slab would need shear reinforcement; thicken it",
                 )
             )
     return checks
@@ -490,7 +624,17 @@ def _cover_checks(strip, project, code, bar_sets) -> list[Check]:
             continue
         req = code.cover(max(phis), exposure, "S4", project.reinforcement.max_aggregate_mm)
         res = code.check_cover(cover, req)
-        checks.append(Check(f"nominal cover, {face}", "EN 1992-1-1:2004, 4.4.1", req.c_nom, cover, "mm", res.ok, res.message))
+        checks.append(
+            Check(
+                f"nominal cover, {face}",
+                "EN 1992-1-1:2004, 4.4.1",
+                req.c_nom,
+                cover,
+                "mm",
+                res.ok,
+                res.message,
+            )
+        )
     return checks
 
 
@@ -501,18 +645,43 @@ def _redistribution_checks(strip, project, code, mat, zones) -> list[Check]:
         return []
     lim = code.redistribution_limits(mat)
     checks = [
-        Check("redistribution: steel ductility", "EN 1992-1-1:2004, 5.5(4)", lim.delta_min_ductility, delta, "delta", delta >= lim.delta_min_ductility - 1e-9)
+        Check(
+            "redistribution: steel ductility",
+            "EN 1992-1-1:2004, 5.5(4)",
+            lim.delta_min_ductility,
+            delta,
+            "delta",
+            delta >= lim.delta_min_ductility - 1e-9,
+        )
     ]
     spans = [s.length_mm for s in strip.segments if not s.is_cantilever]
-    for a, b in zip(spans, spans[1:]):
+    for a, b in itertools.pairwise(spans):
         ok = lim.spans_ok(a, b)
-        checks.append(Check("redistribution: adjacent span ratio", "EN 1992-1-1:2004, 5.5(4)", round(a / b, 3), lim.span_ratio_max if a > b else lim.span_ratio_min, "-", ok))
+        checks.append(
+            Check(
+                "redistribution: adjacent span ratio",
+                "EN 1992-1-1:2004, 5.5(4)",
+                round(a / b, 3),
+                lim.span_ratio_max if a > b else lim.span_ratio_min,
+                "-",
+                ok,
+            )
+        )
     for z in zones:
         if z.face is Face.TOP and z.k > 0:
             x_u_d = max(0.0, (z.d_mm - z.z_mm) / (0.4 * z.d_mm))
             need = lim.delta_min(x_u_d)
-            checks.append(Check(f"redistribution at {z.zone_id}: x_u/d", "EN 1992-1-1:2004, 5.5(4)", round(need, 3), delta, "delta", delta >= need - 1e-9))
+            checks.append(
+                Check(
+                    f"redistribution at {z.zone_id}: x_u/d",
+                    "EN 1992-1-1:2004, 5.5(4)",
+                    round(need, 3),
+                    delta,
+                    "delta",
+                    delta >= need - 1e-9,
+                )
+            )
     return checks
 
 
-__all__ = ["default_code", "detail_project", "detail_strip", "math", "DemandCurve", "BondCondition"]
+__all__ = ["BondCondition", "DemandCurve", "default_code", "detail_project", "detail_strip", "math"]

@@ -25,15 +25,15 @@ from pydantic import ValidationError
 
 from detailer.errors import ProjectError, ProjectErrors, format_key_path
 from detailer.model import Project
-
-# Re-exported for callers that list the allowed values.
-from detailer.project_ga import apply_general_arrangement
 from detailer.project_build import (
     BAR_DIAMETERS_MM,
     CONCRETE_CLASSES,
     EXPOSURE_CLASSES,
     build_project,
 )
+
+# Re-exported for callers that list the allowed values.
+from detailer.project_ga import apply_general_arrangement
 from detailer.project_schema import FileIn, fields_at
 from detailer.project_yaml import DOCUMENT, Path, YamlSource, read_yaml
 

@@ -398,7 +398,9 @@ def _strip(
         psi=psi_factors(s.loads.category, "UK"),
         concrete_density_kn_per_m3=materials.density_kn_per_m3,
         members=int(s.members),
-        fixed_bars=tuple(FixedBars(f.zone, int(f.diameter_mm), int(f.spacing_mm)) for f in s.fixed_bars),
+        fixed_bars=tuple(
+            FixedBars(f.zone, int(f.diameter_mm), int(f.spacing_mm)) for f in s.fixed_bars
+        ),
     )
 
 

@@ -38,7 +38,9 @@ def apply_general_arrangement(
     from detailer.io.dxf_reader import GALayers, read_general_arrangement
 
     if not isinstance(geometry, dict) or "dxf" not in geometry:
-        raise error(("geometry",), "needs dxf: the general-arrangement drawing", "write dxf: ga.dxf")
+        raise error(
+            ("geometry",), "needs dxf: the general-arrangement drawing", "write dxf: ga.dxf"
+        )
     for key in geometry:
         if key not in _GEOMETRY_KEYS:
             raise error(("geometry", key), f"unknown key '{key}'", "use dxf, units or layers")
@@ -51,7 +53,8 @@ def apply_general_arrangement(
     layers = geometry.get("layers") or {}
     if not isinstance(layers, dict) or any(k not in _LAYER_KEYS for k in layers):
         raise error(
-            ("geometry", "layers"), "layers must map slab, supports and strips to layer names",
+            ("geometry", "layers"),
+            "layers must map slab, supports and strips to layer names",
             "e.g. layers: {slab: SLAB, supports: BEAMS, strips: STRIPS}",
         )
     path = dxf if os.path.isabs(dxf) else os.path.join(os.path.dirname(file) or ".", dxf)
@@ -84,7 +87,10 @@ def apply_general_arrangement(
         s = dict(s)
         s["supports_mm"] = [sup.x_mm for sup in g.supports]
         s["support_widths_mm"] = [sup.width_mm for sup in g.supports]
-        for side, overhang in (("left_end", g.left_cantilever_mm), ("right_end", g.right_cantilever_mm)):
+        for side, overhang in (
+            ("left_end", g.left_cantilever_mm),
+            ("right_end", g.right_cantilever_mm),
+        ):
             given = s.get(side)
             if overhang > 0:
                 if isinstance(given, dict) and "cantilever_mm" in given:

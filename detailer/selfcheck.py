@@ -33,7 +33,9 @@ class FaceResistance:
 
     @property
     def utilisation(self) -> np.ndarray:
-        demand = np.where(self.m_ed_shifted_knm_per_m > NEGLIGIBLE_KNM, self.m_ed_shifted_knm_per_m, 0.0)
+        demand = np.where(
+            self.m_ed_shifted_knm_per_m > NEGLIGIBLE_KNM, self.m_ed_shifted_knm_per_m, 0.0
+        )
         with np.errstate(divide="ignore", invalid="ignore"):
             u = np.where(demand > 0, demand / np.maximum(self.m_rd_knm_per_m, 1e-12), 0.0)
         return u
@@ -110,4 +112,6 @@ def self_check(top: FaceResistance, bottom: FaceResistance) -> SelfCheck:
         i = int(np.argmax(u))
         if u[i] > best[0]:
             best = (float(u[i]), float(fr.x_mm[i]), fr.face)
-    return SelfCheck(utilisation_max=best[0], x_at_mm=best[1], face=best[2], ok=best[0] <= 1.0 + 1e-6)
+    return SelfCheck(
+        utilisation_max=best[0], x_at_mm=best[1], face=best[2], ok=best[0] <= 1.0 + 1e-6
+    )

@@ -42,7 +42,9 @@ def qualifies(strip: Strip) -> None:
         raise DesignError(f"{where}: the strip has a cantilever{fix}")
     spans = strip.spans_mm
     if len(spans) < 2:
-        raise DesignError(f"{where}: it needs at least two continuous spans (has {len(spans)}){fix}")
+        raise DesignError(
+            f"{where}: it needs at least two continuous spans (has {len(spans)}){fix}"
+        )
     if min(spans) < MIN_SPAN_RATIO * max(spans):
         raise DesignError(
             f"{where}: spans are not approximately equal (shortest {min(spans):.0f} mm < "

@@ -177,7 +177,10 @@ def strip_model_variants(strip: Strip, f_ck: float = 30.0) -> tuple[tuple[str, B
         restraints = list(fixed.restraints)
         for e, r in zip(ends, choice):
             restraints[e] = r
-        words = [f"{lab} {'fixed' if r is Restraint.FIXED else 'pinned'}" for lab, r in zip(labels, choice)]
+        words = [
+            f"{lab} {'fixed' if r is Restraint.FIXED else 'pinned'}"
+            for lab, r in zip(labels, choice)
+        ]
         name = f"end {words[0]}" if len(words) == 1 else ", ".join(words)
         out.append((name, replace(fixed, restraints=tuple(restraints))))
     return tuple(out)

@@ -9,8 +9,10 @@ def design_lines(detail: StripDetail, bar_type: str) -> list[str]:
     """Per zone M_Ed, A_s,req, the bars chosen, A_s,prov and the governing requirement."""
     lines = [
         "",
-        "  Zone          face     M_Ed (kNm/m)  d (mm)  A_s,req  A_s,min  bars        A_s,prov"
-        "  governing",
+        (
+            "  Zone          face     M_Ed (kNm/m)  d (mm)  A_s,req  A_s,min  bars        A_s,prov"
+            "  governing"
+        ),
     ]
     for z in detail.zones:
         bars = f"{bar_type}{z.phi_mm}@{z.spacing_mm}"

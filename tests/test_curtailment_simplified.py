@@ -53,6 +53,14 @@ def test_qualifying_slab_passes_the_checks(simple):
     assert check_detail(project, detail) == []
 
 
+def _at_least(got: float, rule: float, bar) -> None:
+    """The rule's extent is a minimum; a longer bar must say the envelope needed it."""
+    if got == pytest.approx(rule, abs=0.5):
+        return
+    assert got > rule, (got, rule, bar.set_id)
+    assert "extended where the shifted envelope needs it" in bar.note
+
+
 def test_top_extents_over_internal_supports(simple):
     """Top zones over the internal supports (one zone when the hogging joins across span 2):
     half the bars to 0.3 l from the outer faces, the other half to max(0.15 l, 45 phi); all of
@@ -70,24 +78,18 @@ def test_top_extents_over_internal_supports(simple):
         left_face, right_face = first.x_mm - first.width_mm / 2, last.x_mm + last.width_mm / 2
         sets = _sets(detail, zone.zone_id)
         longest = sets[-1]
-        assert left_face - longest.x_start_mm == pytest.approx(0.3 * SPAN, abs=0.5)
-        assert longest.x_end_mm - right_face == pytest.approx(0.3 * SPAN, abs=0.5)
+        _at_least(left_face - longest.x_start_mm, 0.3 * SPAN, longest)
+        _at_least(longest.x_end_mm - right_face, 0.3 * SPAN, longest)
         if len(sets) == 2:  # alternate bars: each at twice the zone spacing
             short = sets[0]
             reach = max(0.15 * SPAN, 45 * short.phi_mm)
-            assert left_face - short.x_start_mm == pytest.approx(reach, abs=0.5)
-            assert short.x_end_mm - right_face == pytest.approx(reach, abs=0.5)
+            _at_least(left_face - short.x_start_mm, reach, short)
+            _at_least(short.x_end_mm - right_face, reach, short)
             assert short.spacing_mm == longest.spacing_mm == 2 * zone.spacing_mm
         else:
             assert 2 * zone.spacing_mm > min(3 * strip.thickness_mm, 400)
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="simplified rules: top bars to 0.3 l from the face do not cover the hogging of an "
-    "interior span under the UK NA alternate-span loading (3 x 4 m, h 200: refused, M_Rd = 0 at "
-    "x = 6675, 0.3 l from the face of C)",
-)
 def test_typical_qualifying_slab_is_detailed():
     """3 equal 4 m spans, h 200, g_k 1.5 + self-weight, q_k 2.5: meets every condition of use,
     sags in the middle span (separate top zones over B and C)."""
@@ -114,8 +116,10 @@ def test_bottom_extents_in_spans(simple):
         if len(sets) == 2:
             halves += 1
             short = sets[0]
-            assert short.x_start_mm == pytest.approx(seg.x_start_mm + 0.1 * SPAN, abs=0.5)
-            assert short.x_end_mm == pytest.approx(seg.x_end_mm - 0.1 * SPAN, abs=0.5)
+            # stops 0.1 l from each centreline (reaches 0.9 l from the far one), or nearer to
+            # the support where the envelope needs the bar
+            _at_least(seg.x_end_mm - short.x_start_mm, 0.9 * SPAN, short)
+            _at_least(short.x_end_mm - seg.x_start_mm, 0.9 * SPAN, short)
             assert short.spacing_mm == full.spacing_mm == 2 * zone.spacing_mm
         else:
             assert 2 * zone.spacing_mm > min(3 * detail.strip.thickness_mm, 400)

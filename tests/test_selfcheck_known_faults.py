@@ -1,7 +1,7 @@
-"""Known detailing faults: strips the pipeline refuses with its own "self-check fails ... this is
-a detailing fault, please report it" message. Each test is the smallest reproduction found and
-is marked ``xfail(strict=True)``: it starts to XPASS (and so to fail) when the fault is fixed;
-then drop the marker.
+"""Regression tests for detailing faults once found: strips the pipeline refused with its own
+"self-check fails ... this is a detailing fault, please report it" message. Each test is the
+smallest reproduction found (one regression test per fixed fault), and a random-strip test
+checks that no strip meets that refusal again.
 
 Expected behaviour, EN 1992-1-1:2004, 9.2.1.3(1)-(3) with Fig. 9.2: the resistance envelope of
 the bars provided, built up over l_bd from each bar end (measured from the face where a bar
@@ -13,7 +13,6 @@ a message naming a user action, never "this is a detailing fault".
 from __future__ import annotations
 
 import numpy as np
-import pytest
 from hypothesis import Phase, given, settings
 
 from detailer.errors import DesignError
@@ -54,12 +53,6 @@ def test_fault_1_premise_sagging_at_internal_support():
     assert m_max > 1.0  # sagging at the support: bottom steel is needed across it
 
 
-@pytest.mark.xfail(
-    strict=True,
-    raises=DesignError,
-    reason="fault 1: bottom bars stop 10 phi past internal support faces even where the "
-    "envelope sags at the support (M_Rd = 0 at support B, x = 2500)",
-)
 def test_fault_1_bottom_steel_across_a_sagging_internal_support():
     _, detail = _run(FAULT_1)
     assert detail.selfcheck.ok
@@ -74,12 +67,6 @@ FAULT_2 = StripSpec(
 )  # fmt: skip
 
 
-@pytest.mark.xfail(
-    strict=True,
-    raises=DesignError,
-    reason="fault 2: top L-bars at a monolithic end are not checked for l_bd from the face "
-    "(435 mm of bar incl. leg < l_bd 513 mm; utilisation 1.16 at x = 125)",
-)
 def test_fault_2_top_bars_anchored_at_monolithic_end():
     _, detail = _run(FAULT_2)
     assert detail.selfcheck.ok
@@ -99,21 +86,11 @@ def test_fault_3_premise_fixed_end_sags():
     assert m_max > 20.0
 
 
-@pytest.mark.xfail(
-    strict=True,
-    raises=DesignError,
-    reason="fault 3: bottom bars at a monolithic end where the envelope sags are straight and "
-    "not anchored for the face moment (225 mm < l_bd 277 mm; utilisation 1.06 at x = 9375)",
-)
 def test_fault_3_bottom_bars_anchored_at_sagging_fixed_end():
     _, detail = _run(FAULT_3)
     assert detail.selfcheck.ok
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="faults 1-3: random strips still meet the pipeline's own 'detailing fault' refusal",
-)
 @settings(max_examples=40, phases=[Phase.explicit, Phase.generate])  # no shrinking
 @given(strip_specs())
 def test_no_random_strip_meets_a_detailing_fault(spec):

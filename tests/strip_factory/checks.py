@@ -12,6 +12,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from detailer.shapes.table2 import bending_limits
 from tests.strip_factory.clauses import (
     F_YK,
     as_per_m,
@@ -437,8 +438,12 @@ def check_bars(project, detail) -> list[str]:
         if not 0 <= horizontal - run < 5.0 + 0.2:
             out.append(f"{b.set_id}: horizontal {horizontal} for a run of {run:.1f} mm")
         vertical = {"11": "B", "21": "A" if not is_u_bar(b) else "B"}.get(shape.code)
-        if vertical and dims[vertical] > depth + 1e-6:
-            out.append(f"{b.set_id}: leg {dims[vertical]} mm deeper than h less covers {depth:g}")
+        # A U-bar at a free edge must fit between the covers; an L-bar's leg turned into an
+        # end support may run on below the slab into the beam or wall, but only as far as the
+        # minimum end projection P of BS 8666:2005 Table 2 needs.
+        limit = depth if is_u_bar(b) else max(depth, bending_limits(b.phi_mm).p_mm)
+        if vertical and dims[vertical] > limit + 1e-6:
+            out.append(f"{b.set_id}: leg {dims[vertical]} mm deeper than {limit:g} mm")
     return out
 
 
