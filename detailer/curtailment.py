@@ -569,15 +569,24 @@ def lap_centres_mm(pieces: tuple[Run, ...]) -> tuple[float, ...]:
 
 
 def split_zone_runs(
-    runs: tuple[Run, ...], *, stock_mm: float, lap_mm: float, curve: DemandCurve
+    runs: tuple[Run, ...],
+    *,
+    stock_mm: float,
+    lap_mm: float,
+    curve: DemandCurve,
+    lap_all_mm: float | None = None,
 ) -> tuple[Run, ...]:
     """Split a zone's runs for stock lengths with staggered laps.
 
     A single group that needs laps becomes two alternate groups so that only half of the bars
     are lapped at any section; the second group's laps keep 1.3 l_0 clear of the first's.
+    ``lap_mm`` is l_0 for half the bars lapped at a section; where the other group does not
+    run past a lap (so every bar there is lapped) the lap is ``lap_all_mm`` (alpha_6 for
+    100 %, EN 1992-1-1:2004, Table 8.3).
     """
     if all(developed_mm(r) <= stock_mm for r in runs):
         return runs
+    lap_all = lap_mm if lap_all_mm is None else lap_all_mm
     if len(runs) == 1:
         r = runs[0]
         note = "alternate bars, laps staggered"
@@ -595,15 +604,24 @@ def split_zone_runs(
         )
     out: list[Run] = []
     centres: tuple[float, ...] = ()
-    for r in runs:
-        pieces = split_for_stock(
-            r,
-            stock_mm=stock_mm,
-            lap_mm=lap_mm,
-            curve=curve,
-            avoid_mm=centres,
-            min_gap_mm=1.3 * lap_mm,
-        )
+    for k, r in enumerate(runs):
+        others = [o for j, o in enumerate(runs) if j != k]
+        pieces = ()
+        for lap in (lap_mm, lap_all):
+            pieces = split_for_stock(
+                r,
+                stock_mm=stock_mm,
+                lap_mm=lap,
+                curve=curve,
+                avoid_mm=centres,
+                min_gap_mm=1.3 * lap,
+            )
+            # half lapped only where the other group runs through the whole lap zone
+            if all(
+                any(o.x_start_mm <= c - 0.65 * lap and o.x_end_mm >= c + 0.65 * lap for o in others)
+                for c in lap_centres_mm(pieces)
+            ):
+                break
         centres = centres + lap_centres_mm(pieces)
         out.extend(pieces)
     return tuple(out)

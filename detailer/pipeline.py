@@ -258,6 +258,7 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
                 stock_mm=project.reinforcement.stock_length_mm,
                 lap_mm=anch.l0(z.phi_mm, z.face),
                 curve=curve,
+                lap_all_mm=anch.l0_all(z.phi_mm, z.face),
             )
             for p in pieces:
                 bar_sets.append(run_to_barset(p, strip, bar_type, shape_rules))

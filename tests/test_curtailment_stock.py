@@ -85,3 +85,24 @@ def test_split_strip_still_passes_the_checks(long_strip):
     other = detail_project(build_project(StripSpec(**fields))).strips[0]
     assert not laps(other, top=False) and not laps(other, top=True)
     assert max(b.shape.length_mm for b in principal_bars(other, False)) > STOCK
+
+
+def test_lap_where_only_one_group_runs_is_a_full_lap():
+    """Regression: a staged top zone whose curtailed group does not reach the lap of the full
+    group laps every bar present there, so l_0 takes alpha_6 = 1.5 for 100 % lapped
+    (EN 1992-1-1:2004, 8.7.3(1) and Table 8.3); it was given the 50 % lap length."""
+    from detailer.pipeline import default_code, detail_strip
+    from tests.strip_factory import StripSpec, build_project
+    from tests.strip_factory.checks import check_detail
+
+    spec = StripSpec(
+        spans_mm=(5750, 2750), thickness_mm=190, g_k_kn_per_m2=2.25, q_k_kn_per_m2=3.0,
+        left_end="pinned", right_end="cantilever", left_cantilever_mm=0,
+        right_cantilever_mm=1650, line_load=None, concrete="C25/30", cover_mm=25,
+        support_width_mm=200, panel_width_mm=3000, stock_length_mm=6000,
+        curtailment="envelope", category="A",
+    )  # fmt: skip
+    project = build_project(spec)
+    detail = detail_strip(project, project.strips[0], default_code(project))
+    assert any("piece" in b.note for b in detail.bar_sets)  # the case does lap
+    assert check_detail(project, detail) == []
