@@ -38,7 +38,7 @@ from detailer.layout import BarRole, BarSet, Face, ZoneDesign
 from detailer.model import Project, Strip
 from detailer.schedule import bar_count, principal_bar_count
 from detailer.shapes import detailing as shape_helpers
-from detailer.shapes.bs8666 import ScheduledShape, make_shape
+from detailer.shapes.bs8666 import ScheduledShape, ShapeError, make_shape
 from detailer.shapes.table2 import bending_limits
 
 #: A staged (alternate-bar) layout is used only when group b is at most this share of group a's
@@ -469,7 +469,8 @@ def _bottom_end(
     face needs more anchorage than the straight length past the face gives, the resistance
     being built up over l_bd from the bar end (EN 1992-1-1:2004, 9.2.1.3(3), 9.2.1.4(3)).
     Internal supports: at least 10 phi past the face (9.2.1.5(1)); where the envelope sags at
-    the support the bars of both spans run on to lap over it by l_0 (8.7.3).
+    the support the bars of both spans run on to lap over it by l_0 (8.7.3), or, at a
+    cantilever root, cross it to lap l_0 with the cantilever's bottom bars.
     """
     sup = strip.supports[i]
     l_bd = anch.lbd(phi, Face.BOTTOM)
@@ -490,7 +491,15 @@ def _bottom_end(
     # bars stopped 10 phi past the face build up only 10 phi / l_bd of their resistance there
     carried = m_rd_knm_per_m(code, mat, half_as, d_mm) * min(1.0, reach / l_bd)
     if within > SAGGING_AT_SUPPORT_KNM or at_face > carried + 1e-9:
-        reach = max(reach, (anch.l0_all(phi, Face.BOTTOM) + sup.width_mm) / 2)
+        lap = anch.l0_all(phi, Face.BOTTOM)
+        last = len(strip.supports) - 1
+        beyond_is_cantilever = (i == 0 and strip.has_left_cantilever) or (
+            i == last and strip.has_right_cantilever
+        )
+        # between two spans both spans' bars run on, lapping l_0 over the support; at a
+        # cantilever root the span's bars cross the support and lap l_0 with the cantilever's
+        # nominal bottom bars beyond it
+        reach = max(reach, sup.width_mm + lap if beyond_is_cantilever else (lap + sup.width_mm) / 2)
     if side == "left":
         return sup.x_mm + sup.width_mm / 2 - reach, 0.0
     return sup.x_mm - sup.width_mm / 2 + reach, 0.0
@@ -687,19 +696,43 @@ def _principal_count(strip: Strip, spacing_mm: float, offset_mm: float) -> int:
 
 
 def u_bar_set(
-    strip: Strip, top_zone: ZoneDesign, geom: StripGeometry, at_left: bool, bar_type: str, rules
+    strip: Strip,
+    top_zone: ZoneDesign,
+    geom: StripGeometry,
+    at_left: bool,
+    bar_type: str,
+    rules,
+    diameters: tuple[int, ...] = (),
 ) -> BarSet:
-    """U-bars closing a free cantilever edge (EN 1992-1-1:2004, 9.3.1.4(1))."""
+    """U-bars closing a free cantilever edge (EN 1992-1-1:2004, 9.3.1.4(1)), one per top bar.
+
+    The U takes the top bars' size where it can be bent to fit between the covers (BS 8666
+    minimum lengths between bends); otherwise the largest smaller allowed size that fits.
+    """
     leg = U_BAR_LEG_OVER_H * strip.thickness_mm
-    shape = shape_helpers.u_bar(
-        top_zone.phi_mm,
-        strip.thickness_mm,
-        strip.cover_top_mm,
-        strip.cover_bottom_mm,
-        leg,
-        bar_type=bar_type,
-        rules=rules,
-    )
+    sizes = [top_zone.phi_mm] + sorted((p for p in diameters if p < top_zone.phi_mm), reverse=True)
+    shape = None
+    first_error: ShapeError | None = None
+    for phi in sizes:
+        try:
+            shape = shape_helpers.u_bar(
+                phi,
+                strip.thickness_mm,
+                strip.cover_top_mm,
+                strip.cover_bottom_mm,
+                leg,
+                bar_type=bar_type,
+                rules=rules,
+            )
+            break
+        except ShapeError as exc:
+            first_error = first_error or exc
+    if shape is None:
+        raise DesignError(
+            f"strip {strip.id}: no allowed bar size bends into a U-bar for the free edge inside "
+            f"h = {strip.thickness_mm:g} mm less the covers ({first_error}); allow a smaller bar "
+            "size or reduce the covers"
+        )
     x0 = geom.bar_left_mm if at_left else geom.bar_right_mm - shape.dim("A")
     return BarSet(
         strip_id=strip.id,
@@ -708,7 +741,7 @@ def u_bar_set(
         layer="T1",
         zone_id=top_zone.zone_id,
         bar_type=bar_type,
-        phi_mm=top_zone.phi_mm,
+        phi_mm=shape.phi_mm,
         spacing_mm=top_zone.spacing_mm,
         offset_mm=0.0,
         count=principal_bar_count(strip.panel_width_mm, strip.cover_side_mm, top_zone.spacing_mm),

@@ -124,9 +124,11 @@ def zone_specs(
                 segment=seg.index,
             )
         )
-    # Top zones: hogging regions of the (capped, unshifted) demand.
+    # Top zones: hogging regions of the (capped) demand.
     covered: set[int] = set()
-    for x0, x1 in intervals_above(top.x_mm, top.m_knm_per_m, 1e-6):
+    # Regions of the shifted curve: two supports whose shifted hogging joins share one zone
+    # (their bars would otherwise run over each other).
+    for x0, x1 in intervals_above(top.x_mm, top.m_shifted_knm_per_m, 1e-6):
         inside = tuple(
             i
             for i, s in enumerate(sups)

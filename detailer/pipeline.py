@@ -237,6 +237,7 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
     bar_type = m.bar_type
     shape_rules = _shape_rules(project)
     bar_sets: list[BarSet] = []
+    opts_d = tuple(project.reinforcement.diameters_mm)
     try:
         for z in zones:
             spec = spec_by_zone[z.zone_id]
@@ -264,9 +265,9 @@ def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetai
                 bar_sets.append(run_to_barset(p, strip, bar_type, shape_rules))
             if z.face is Face.TOP:
                 if strip.has_left_cantilever and z.x_from_mm <= geom.slab_left_mm + 1.0:
-                    bar_sets.append(u_bar_set(strip, z, geom, True, bar_type, shape_rules))
+                    bar_sets.append(u_bar_set(strip, z, geom, True, bar_type, shape_rules, opts_d))
                 if strip.has_right_cantilever and z.x_to_mm >= geom.slab_right_mm - 1.0:
-                    bar_sets.append(u_bar_set(strip, z, geom, False, bar_type, shape_rules))
+                    bar_sets.append(u_bar_set(strip, z, geom, False, bar_type, shape_rules, opts_d))
         bar_sets.extend(
             _distribution(strip, project, code, zones, bar_sets, anch, bar_type, shape_rules)
         )

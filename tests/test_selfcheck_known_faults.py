@@ -99,3 +99,20 @@ def test_no_random_strip_meets_a_detailing_fault(spec):
         detail_strip(project, project.strips[0], default_code(project))
     except DesignError as exc:
         assert FAULT not in str(exc), str(exc)
+
+
+# Fault 4: a span sagging at a cantilever root (left balcony 800 mm, spans 6.25 / 2.5 m): the
+# span's bottom bars were lapped half over the root support, leaving too little overlap with
+# the balcony's bottom bars at the face; they now cross the support and lap l_0 beyond it.
+FAULT_4 = StripSpec(
+    spans_mm=(6250, 2500), thickness_mm=205, g_k_kn_per_m2=0.5, q_k_kn_per_m2=3.5,
+    left_end="cantilever", right_end="pinned", left_cantilever_mm=800, concrete="C25/30",
+    cover_mm=25, support_width_mm=200, panel_width_mm=3000, stock_length_mm=6000,
+)  # fmt: skip
+
+
+def test_fault_4_span_bars_lap_past_a_cantilever_root():
+    from tests.strip_factory.checks import check_detail
+
+    project, detail = _run(FAULT_4)
+    assert check_detail(project, detail) == []
