@@ -323,34 +323,24 @@ def principal_runs(
             ),
         )
     legs_b = BarEnds(left_leg if b0 <= a0 + 1e-6 else 0.0, right_leg if b1 >= a1 - 1e-6 else 0.0)
+    return _alternate_runs(zone, layer, (a0, a1, BarEnds(left_leg, right_leg)), (b0, b1, legs_b))
+
+
+def _alternate_runs(
+    zone: ZoneDesign,
+    layer: str,
+    a: tuple[float, float, BarEnds],
+    b: tuple[float, float, BarEnds],
+    note: str = "",
+) -> tuple[Run, Run]:
+    """Two alternate groups at twice the zone spacing: "a" full length, "b" curtailed."""
+    phi, s = zone.phi_mm, zone.spacing_mm
     return (
-        Run(
-            f"{zone.zone_id}-a",
-            zone.zone_id,
-            face,
-            layer,
-            phi,
-            2 * s,
-            0.0,
-            a0,
-            a1,
-            BarEnds(left_leg, right_leg),
-            "alternate bars, full length",
-        ),
-        Run(
-            f"{zone.zone_id}-b",
-            zone.zone_id,
-            face,
-            layer,
-            phi,
-            2 * s,
-            float(s),
-            b0,
-            b1,
-            legs_b,
-            "alternate bars, curtailed",
-        ),
-    )
+        Run(f"{zone.zone_id}-a", zone.zone_id, zone.face, layer, phi, 2 * s, 0.0, a[0], a[1], a[2],
+            "alternate bars, full length" + note),
+        Run(f"{zone.zone_id}-b", zone.zone_id, zone.face, layer, phi, 2 * s, float(s), b[0], b[1],
+            b[2], "alternate bars, curtailed" + note),
+    )  # fmt: skip
 
 
 def _widen(rule: Run, envelope: Run) -> Run:
@@ -374,8 +364,7 @@ def _widen(rule: Run, envelope: Run) -> Run:
 
 def _simplified_runs(spec, zone, strip, geom, layer, a0, a1, left_leg, right_leg):
     """Runs by the fixed fractions of detailer.simplified (None: zone not covered by them)."""
-    phi, s = zone.phi_mm, zone.spacing_mm
-    face = zone.face
+    phi = zone.phi_mm
     sups = strip.supports
     if spec.kind == "span":
         seg = strip.segments[spec.segment]
@@ -395,33 +384,12 @@ def _simplified_runs(spec, zone, strip, geom, layer, a0, a1, left_leg, right_leg
         b0, b1 = face_l - full_l, face_r + full_r
         left_leg = right_leg = 0.0
     note = f"simplified rules, {simplified.SIMPLIFIED_SOURCE}"
-    return (
-        Run(
-            f"{zone.zone_id}-a",
-            zone.zone_id,
-            face,
-            layer,
-            phi,
-            2 * s,
-            0.0,
-            a0,
-            a1,
-            BarEnds(left_leg, right_leg),
-            "alternate bars, full length; " + note,
-        ),
-        Run(
-            f"{zone.zone_id}-b",
-            zone.zone_id,
-            face,
-            layer,
-            phi,
-            2 * s,
-            float(s),
-            max(b0, a0),
-            min(b1, a1),
-            BarEnds(),
-            "alternate bars, curtailed; " + note,
-        ),
+    return _alternate_runs(
+        zone,
+        layer,
+        (a0, a1, BarEnds(left_leg, right_leg)),
+        (max(b0, a0), min(b1, a1), BarEnds()),
+        note="; " + note,
     )
 
 
