@@ -25,6 +25,8 @@ __all__ = [
     "MaterialsRecord",
     "PartialLoadRecord",
     "ProjectRecord",
+    "RevisionRecord",
+    "ScheduleRowRecord",
     "SectionRecord",
     "SegmentRecord",
     "StationRecord",
@@ -59,7 +61,7 @@ from detailer.layout import (
     ZoneDesign,
 )
 from detailer.marks import layer_sort_key, mark_table
-from detailer.schedule import schedule_rows, summarise
+from detailer.schedule import Schedule, schedule_rows, summarise
 
 #: Version of the record's layout; raised when a field changes meaning or is removed.
 SCHEMA_VERSION: Final = 1
@@ -166,6 +168,7 @@ class ActionsRecord:
     pattern: str
     arrangements: tuple[str, ...]
     redistribution_delta: float
+    restraint_variants: tuple[str, ...]  # idealisations enveloped (monolithic ends fixed/pinned)
 
 
 @dataclass(frozen=True, slots=True, kw_only=True)
@@ -245,6 +248,25 @@ class MarkRecord:
 
 
 @dataclass(frozen=True, slots=True, kw_only=True)
+class RevisionRecord:
+    revision: str
+    date: str
+    description: str  # one line: what changed at this revision
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
+class ScheduleRowRecord:
+    member: str
+    mark: str
+    type_and_size: str
+    n_members: int
+    n_bars_each: int
+    length_mm: int
+    mass_kg: float
+    revision: str  # revision letter of the issue that last changed this row
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
 class ProjectRecord:
     schema_version: int
     project_id: str
@@ -259,6 +281,8 @@ class ProjectRecord:
     marks: tuple[MarkRecord, ...]
     withdrawn_marks: tuple[str, ...]
     total_mass_kg: float
+    revisions: tuple[RevisionRecord, ...] = ()  # every issue, oldest first, this one last
+    schedule: tuple[ScheduleRowRecord, ...] = ()
 
 
 # --------------------------------------------------------------------------------------------
@@ -362,7 +386,12 @@ def _actions(detail: StripDetail) -> ActionsRecord:
     eqs = equations(an.combination, f)
     if an.pattern is AnalysisPatternRule.ALL_AND_ALTERNATE:
         sets = alternate_sets(an.model.n_segments)
-        labels = tuple(make_arrangement(an.model, e.name, s).label for e in eqs for s in sets)
+        labels = tuple(
+            make_arrangement(an.model, e.name, s, variant=v).label
+            for v in (an.variants or ("",))
+            for e in eqs
+            for s in sets
+        )
     else:
         labels = ()  # every subset of loaded segments: too many to list
     return ActionsRecord(
@@ -379,6 +408,7 @@ def _actions(detail: StripDetail) -> ActionsRecord:
         pattern=an.pattern.value,
         arrangements=labels,
         redistribution_delta=env.redistribution_delta,
+        restraint_variants=tuple(an.variants),
     )
 
 
@@ -478,19 +508,33 @@ def mark_records(strips_bar_sets: Iterable[Iterable[BarSet]]) -> tuple[MarkRecor
     )
 
 
-def build_record(detail: ProjectDetail, *, withdrawn_marks: Sequence[str] = ()) -> ProjectRecord:
+def build_record(
+    detail: ProjectDetail,
+    *,
+    withdrawn_marks: Sequence[str] = (),
+    schedule: Schedule | None = None,
+    history: Sequence[RevisionRecord] = (),
+    description: str = "first issue",
+) -> ProjectRecord:
     """The record of a detailed project whose bar sets carry their marks.
 
     ``withdrawn_marks``: marks issued before and no longer used (kept so they are never given
-    to another bar; see :func:`detailer.marks.withdrawn_marks`).
+    to another bar; see :func:`detailer.marks.withdrawn_marks`). ``schedule``: the issued
+    schedule, whose rows (with their revision letters) are recorded; ``history``: the earlier
+    issues, to which this one is added with ``description``.
     """
     p = detail.project
     m = p.materials
     bar_sets = [s.bar_sets for s in detail.strips]
     all_sets = [b for s in detail.strips for b in s.bar_sets]
-    summary = summarise(
-        schedule_rows(all_sets, revision=p.revision, members={s.id: s.members for s in p.strips})
+    rows = (
+        schedule.rows
+        if schedule is not None
+        else schedule_rows(
+            all_sets, revision=p.revision, members={s.id: s.members for s in p.strips}
+        )
     )
+    summary = summarise(rows)
     return ProjectRecord(
         schema_version=SCHEMA_VERSION,
         project_id=p.id,
@@ -514,6 +558,23 @@ def build_record(detail: ProjectDetail, *, withdrawn_marks: Sequence[str] = ()) 
         marks=mark_records(bar_sets),
         withdrawn_marks=tuple(withdrawn_marks),
         total_mass_kg=math.fsum(line.mass_kg for line in summary),
+        revisions=(
+            *history,
+            RevisionRecord(revision=p.revision, date=p.date, description=description),
+        ),
+        schedule=tuple(
+            ScheduleRowRecord(
+                member=r.member,
+                mark=r.mark,
+                type_and_size=r.type_and_size,
+                n_members=r.n_members,
+                n_bars_each=r.n_bars_each,
+                length_mm=r.length_mm,
+                mass_kg=r.mass_kg,
+                revision=r.revision,
+            )
+            for r in rows
+        ),
     )
 
 
