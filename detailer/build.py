@@ -14,15 +14,24 @@ from pathlib import Path
 
 from detailer.codes.base import DesignCode
 from detailer.errors import DesignError
-from detailer.io.atomic import write_outputs
 from detailer.io.csv_writer import render_schedule_csv
-from detailer.io.json_writer import render_record_json
+from detailer.io.history import PreviousIssue, find_previous, read_previous, write_issue
+from detailer.io.json_writer import previous_marks, record_file_name, render_record_json
 from detailer.layout import ProjectDetail, StripDetail
-from detailer.marks import assign_marks
+from detailer.marks import BarIdentity, assign_marks, mark_table, withdrawn_marks
 from detailer.model import Project
 from detailer.pipeline import default_code, detail_strip
 from detailer.project import load_project
-from detailer.record import build_record
+from detailer.record import ProjectRecord, RevisionRecord, build_record, record_to_jsonable
+from detailer.revisions import (
+    choose_revision,
+    compare_records,
+    describe,
+    previous_rows,
+    render_changes,
+    same_content,
+    view_of,
+)
 from detailer.schedule import Schedule, schedule_for_project
 
 DEFAULT_OUTPUT_ROOT = Path("output")
@@ -44,10 +53,34 @@ class BuildResult:
     detail: ProjectDetail
     schedule: Schedule
     files: tuple[tuple[str, bytes], ...]
+    previous_revision: str = ""  # revision of the previous record, "" for a first issue
+    unchanged: bool = False  # same as the previous record: nothing to write
+    description: str = ""  # one line: what changed at this revision
+    archive_dir: Path | None = None  # where the previous issue's files were kept
 
 
-def detail_with_marks(project: Project, code: DesignCode | None = None) -> ProjectDetail:
-    """Design and detail every strip, then give every bar set its mark."""
+@dataclass(frozen=True, slots=True)
+class Issue:
+    """The pure part of a build: marked detail, schedule, record and change report."""
+
+    detail: ProjectDetail
+    schedule: Schedule
+    record: ProjectRecord
+    previous_revision: str
+    unchanged: bool
+    description: str
+    changes: str  # Markdown change report; "" for a first issue
+
+
+def detail_with_marks(
+    project: Project,
+    code: DesignCode | None = None,
+    *,
+    previous: dict[BarIdentity, str] | None = None,
+    withdrawn: tuple[str, ...] = (),
+) -> ProjectDetail:
+    """Design and detail every strip, then give every bar set its mark (keeping the marks of
+    ``previous`` for unchanged bars, never reusing ``withdrawn``)."""
     code = code or default_code(project)
     details: list[StripDetail] = []
     failures: list[tuple[str, str]] = []
@@ -58,9 +91,64 @@ def detail_with_marks(project: Project, code: DesignCode | None = None) -> Proje
             failures.append((strip.id, str(exc)))
     if failures:
         raise BuildFailed(tuple(failures))
-    marked = assign_marks([d.bar_sets for d in details])
+    marked = assign_marks([d.bar_sets for d in details], previous, withdrawn=withdrawn)
     strips = tuple(dataclasses.replace(d, bar_sets=m) for d, m in zip(details, marked, strict=True))
     return ProjectDetail(project=project, strips=strips)
+
+
+def make_issue(
+    project: Project, code: DesignCode | None = None, previous: PreviousIssue | None = None
+) -> Issue:
+    """Marks, schedule, record and change report of a project against its previous issue (pure).
+
+    Unchanged bars keep their marks and schedule rows their revision letters; when nothing
+    changed the issue is ``unchanged`` at the previous revision. Otherwise the revision is
+    chosen by :func:`detailer.revisions.choose_revision`.
+    """
+    members = {s.id: s.members for s in project.strips}
+    if previous is None:
+        detail = detail_with_marks(project, code)
+        schedule = schedule_for_project(detail, members=members)
+        record = build_record(detail, schedule=schedule)
+        return Issue(detail, schedule, record, "", False, "first issue", "")
+    data = previous.data
+    table, earlier_withdrawn = previous_marks(data)
+    history = tuple(
+        RevisionRecord(
+            revision=str(r["revision"]), date=str(r["date"]), description=str(r["description"])
+        )
+        for r in data.get("revisions", ())
+    ) or (
+        RevisionRecord(revision=previous.revision, date=str(data.get("date", "")), description=""),
+    )
+    old_rows = previous_rows(data, table)
+    at_old = dataclasses.replace(project, revision=previous.revision)
+    detail = detail_with_marks(at_old, code, previous=table, withdrawn=earlier_withdrawn)
+    gone = withdrawn_marks(table, mark_table(s.bar_sets for s in detail.strips), earlier_withdrawn)
+    schedule = schedule_for_project(detail, members=members, previous=old_rows)
+    same = build_record(
+        detail,
+        withdrawn_marks=gone,
+        schedule=schedule,
+        history=history[:-1],
+        description=history[-1].description,
+    )
+    if same_content(data, record_to_jsonable(same)):
+        return Issue(detail, schedule, same, previous.revision, True, "no change", "")
+    revision = choose_revision(project.revision, tuple(r.revision for r in history))
+    detail = dataclasses.replace(detail, project=dataclasses.replace(project, revision=revision))
+    schedule = schedule_for_project(detail, members=members, previous=old_rows)
+    record = build_record(detail, withdrawn_marks=gone, schedule=schedule, history=history)
+    diff = compare_records(view_of(data), view_of(record_to_jsonable(record)))
+    text = describe(diff)
+    record = dataclasses.replace(
+        record,
+        revisions=(
+            *history,
+            RevisionRecord(revision=revision, date=project.date, description=text),
+        ),
+    )
+    return Issue(detail, schedule, record, previous.revision, False, text, render_changes(diff))
 
 
 def build_outputs(
@@ -69,18 +157,21 @@ def build_outputs(
     *,
     input_name: str = "",
     input_sha256: str = "",
+    previous: PreviousIssue | None = None,
 ) -> BuildResult:
     """The output files of a project, by file name (pure). ``input_name``/``input_sha256``
-    identify the project file in the calculation report."""
+    identify the project file in the calculation report; ``previous`` is the earlier issue
+    (marks kept, revision advanced, change report written; no files when nothing changed)."""
     from detailer.audit import audit_layout, parse_schedule_csv
     from detailer.io.dxf_preview import render_png
     from detailer.io.dxf_readback import read_layout
     from detailer.io.dxf_writer import layout_name, write_layout
     from detailer.report import render_report, report_file_name
 
-    detail = detail_with_marks(project, code)
-    schedule = schedule_for_project(detail, members={s.id: s.members for s in project.strips})
-    record = build_record(detail)
+    issue = make_issue(project, code, previous)
+    detail, schedule, record = issue.detail, issue.schedule, issue.record
+    if issue.unchanged:
+        return BuildResult(detail, schedule, (), issue.previous_revision, True, issue.description)
     pid = project.id
     csv_bytes = render_schedule_csv(schedule, project)
     dxf_bytes = write_layout(detail)
@@ -108,7 +199,15 @@ def build_outputs(
             ),
         )
     )
-    return BuildResult(detail=detail, schedule=schedule, files=tuple(files))
+    if issue.changes:
+        files.append((f"{pid}-changes.md", issue.changes.encode("utf-8")))
+    return BuildResult(
+        detail=detail,
+        schedule=schedule,
+        files=tuple(files),
+        previous_revision=issue.previous_revision,
+        description=issue.description,
+    )
 
 
 def output_dir(project: Project, out: str | Path | None) -> Path:
@@ -116,11 +215,32 @@ def output_dir(project: Project, out: str | Path | None) -> Path:
     return Path(out) if out is not None else DEFAULT_OUTPUT_ROOT / project.id
 
 
-def build(project_path: str | Path, out: str | Path | None = None) -> tuple[BuildResult, Path]:
-    """Read, design, detail and write; returns the result and the folder written to."""
+def build(
+    project_path: str | Path, out: str | Path | None = None, previous: str | Path | None = None
+) -> tuple[BuildResult, Path]:
+    """Read, design, detail and write; returns the result and the folder written to.
+
+    The previous issue is ``previous`` (a record file) or the record in the output folder;
+    its files are kept in ``<out>/rev-<revision>/`` before the new issue is written. When
+    nothing changed nothing is written (``result.unchanged``).
+    """
     project = load_project(project_path)
     digest = hashlib.sha256(Path(project_path).read_bytes()).hexdigest()
-    result = build_outputs(project, input_name=Path(project_path).name, input_sha256=digest)
     folder = output_dir(project, out)
-    write_outputs({folder / name: data for name, data in result.files})
-    return result, folder
+    prev_path = find_previous(folder, project.id, previous)
+    prev = read_previous(prev_path, project.id) if prev_path is not None else None
+    result = build_outputs(
+        project, input_name=Path(project_path).name, input_sha256=digest, previous=prev
+    )
+    if result.unchanged:
+        return result, folder
+    in_folder = folder / record_file_name(project.id)
+    old_revision = None
+    if in_folder.is_file():
+        old_revision = (
+            prev.revision
+            if prev is not None and prev.path == in_folder
+            else read_previous(in_folder).revision
+        )
+    archive = write_issue(folder, project.id, dict(result.files), old_revision)
+    return dataclasses.replace(result, archive_dir=archive), folder

@@ -1,4 +1,4 @@
-"""Command line: ``slabwright check PROJECT.yaml`` and ``slabwright --version``.
+"""Command line: ``slabwright check|build|audit|compare ...`` and ``slabwright --version``.
 
 Thin: parse arguments, call the project reader and the analysis, print, return an exit code
 (0 success, 2 input error). Input errors print one line each on stderr, never a traceback.
@@ -59,6 +59,19 @@ def _parser() -> argparse.ArgumentParser:
     )
     build.add_argument("project", metavar="PROJECT.yaml", help="project file")
     build.add_argument("--out", metavar="DIR", help="output folder (default output/<project-id>/)")
+    build.add_argument(
+        "--previous",
+        metavar="RECORD.json",
+        help="record of the previous issue (default: the record in the output folder)",
+    )
+    compare = sub.add_parser(
+        "compare",
+        help="list what changed between two issues of a project (two record files)",
+        description="Print the change report between two -record.json files of one project.",
+        epilog=CAUTION,
+    )
+    compare.add_argument("old", metavar="OLD_RECORD.json", help="record of the earlier issue")
+    compare.add_argument("new", metavar="NEW_RECORD.json", help="record of the later issue")
     audit = sub.add_parser(
         "audit",
         help="compare a layout drawing (perhaps edited since) with a bar schedule",
@@ -82,7 +95,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     if args.command == "check":
         return _check(args.project, sys.stdout, sys.stderr)
     if args.command == "build":
-        return _build(args.project, args.out, sys.stdout, sys.stderr)
+        return _build(args.project, args.out, sys.stdout, sys.stderr, args.previous)
+    if args.command == "compare":
+        return _compare(args.old, args.new, sys.stdout, sys.stderr)
     if args.command == "audit":
         return _audit(args.drawing, args.schedule, sys.stdout, sys.stderr)
     _parser().print_help(sys.stdout)
@@ -136,11 +151,31 @@ def _audit(drawing: str, schedule: str, out: TextIO, err: TextIO) -> int:
     return EXIT_OK if report.ok else EXIT_DESIGN_FAILED
 
 
-def _build(path: str, out_dir: str | None, out: TextIO, err: TextIO) -> int:
+def _compare(old: str, new: str, out: TextIO, err: TextIO) -> int:
+    from detailer.io.history import read_previous
+    from detailer.revisions import compare_records, render_changes, view_of
+
+    try:
+        a = read_previous(old)
+        b = read_previous(new, str(a.data.get("project_id")))
+        text = render_changes(compare_records(view_of(a.data), view_of(b.data)))
+    except InputError as exc:
+        print(str(exc), file=err)
+        return EXIT_INPUT_ERROR
+    except (KeyError, TypeError, ValueError) as exc:
+        print(f"{new}: the record is damaged ({exc!r}); rebuild it", file=err)
+        return EXIT_INPUT_ERROR
+    out.write(text)
+    return EXIT_OK
+
+
+def _build(
+    path: str, out_dir: str | None, out: TextIO, err: TextIO, previous: str | None = None
+) -> int:
     from detailer.build import BuildFailed, build
 
     try:
-        result, folder = build(path, out_dir)
+        result, folder = build(path, out_dir, previous)
     except ProjectError as exc:
         for e in getattr(exc, "errors", (exc,)):
             print(str(e), file=err)
@@ -154,7 +189,17 @@ def _build(path: str, out_dir: str | None, out: TextIO, err: TextIO) -> int:
     except InputError as exc:  # e.g. an output folder that cannot be written
         print(str(exc), file=err)
         return EXIT_INPUT_ERROR
+    except ValueError as exc:  # a revision that cannot be advanced
+        print(f"{path}: {exc}", file=err)
+        return EXIT_INPUT_ERROR
     detail = result.detail
+    if result.unchanged:
+        out.write(
+            f"slabwright {__version__} build: {path}\n"
+            f"no change since revision {result.previous_revision}: nothing written in {folder}\n"
+        )
+        out.write(CAUTION + "\n")
+        return EXIT_OK
     out.write(f"slabwright {__version__} build: {path}\n")
     out.write(
         f"Project {detail.project.id}: {detail.project.title} (revision {detail.project.revision})\n"
@@ -169,6 +214,13 @@ def _build(path: str, out_dir: str | None, out: TextIO, err: TextIO) -> int:
         )
     total = sum(line.mass_kg for line in result.schedule.summary)
     out.write(f"  total mass of reinforcement {total:.1f} kg\n")
+    if result.previous_revision:
+        out.write(
+            f"  revision {result.previous_revision} -> {detail.project.revision}: "
+            f"{result.description}\n"
+        )
+    if result.archive_dir is not None:
+        out.write(f"  kept revision {result.previous_revision} in {result.archive_dir}\n")
     out.writelines(f"  wrote {folder / name}\n" for name, _ in result.files)
     out.write(CAUTION + "\n")
     return EXIT_OK
