@@ -24,6 +24,7 @@ from detailer.pipeline import default_code, detail_strip
 from detailer.project import load_project
 from detailer.record import ProjectRecord, RevisionRecord, build_record, record_to_jsonable
 from detailer.revisions import (
+    RevisionDiff,
     choose_revision,
     compare_records,
     describe,
@@ -70,6 +71,7 @@ class Issue:
     unchanged: bool
     description: str
     changes: str  # Markdown change report; "" for a first issue
+    diff: RevisionDiff | None = None  # the changes as data (None: first issue or unchanged)
 
 
 def detail_with_marks(
@@ -148,7 +150,9 @@ def make_issue(
             RevisionRecord(revision=revision, date=project.date, description=text),
         ),
     )
-    return Issue(detail, schedule, record, previous.revision, False, text, render_changes(diff))
+    return Issue(
+        detail, schedule, record, previous.revision, False, text, render_changes(diff), diff
+    )
 
 
 def build_outputs(
@@ -174,7 +178,14 @@ def build_outputs(
         return BuildResult(detail, schedule, (), issue.previous_revision, True, issue.description)
     pid = project.id
     csv_bytes = render_schedule_csv(schedule, project)
-    dxf_bytes = write_layout(detail)
+    diff = issue.diff
+    changed_ids: frozenset[tuple[str, str]] = frozenset()
+    if diff is not None:  # bar sets added or changed at this revision get a marker
+        changed_ids = frozenset(
+            [(s.strip_id, b.set_id) for s in diff.strips for b in s.added]
+            + [(s.strip_id, new.set_id) for s in diff.strips for _, new in s.changed]
+        )
+    dxf_bytes = write_layout(detail, revisions=record.revisions, changed_set_ids=changed_ids)
     # The drawing must agree with the schedule it is issued with: audit our own outputs.
     findings = audit_layout(
         read_layout(dxf_bytes), parse_schedule_csv(csv_bytes.decode("utf-8"), f"{pid}-schedule.csv")
@@ -195,7 +206,12 @@ def build_outputs(
         (
             report_file_name(pid),
             render_report(
-                detail, record, schedule, input_name=input_name, input_sha256=input_sha256
+                detail,
+                record,
+                schedule,
+                input_name=input_name,
+                input_sha256=input_sha256,
+                changes=diff,
             ),
         )
     )

@@ -237,7 +237,7 @@ def _geometry_changes(old: StripView, new: StripView) -> list[str]:
             lines.append(f"support {label} added at x = {x:g} mm")
         elif before[2] != width:
             lines.append(f"support {label} width {before[2]:g} -> {width:g} mm")
-    for label in old_sup.keys() - {s[0] for s in new.supports}:
+    for label in sorted(old_sup.keys() - {s[0] for s in new.supports}):
         lines.append(f"support {label} removed")
     old_loads = dict(old.segment_loads)
     for label, text in new.segment_loads:

@@ -12,7 +12,7 @@ through a text, and no dimension text sits on a leader (see :mod:`detailer.io.dx
 
 from __future__ import annotations
 
-__all__ = ["StripPlan", "View", "bar_fields", "plan_strip"]
+__all__ = ["StripPlan", "View", "bar_fields", "marker_fields", "plan_strip"]
 
 import itertools
 from dataclasses import dataclass, field
@@ -144,16 +144,26 @@ def label_fields(b: BarSet, view: str) -> Fields:
     )
 
 
-def plan_strip(sd: StripDetail, scale: int, detail_scale: int) -> StripPlan:
+def plan_strip(
+    sd: StripDetail,
+    scale: int,
+    detail_scale: int,
+    *,
+    revision: str = "",
+    changed_set_ids: frozenset[tuple[str, str]] = frozenset(),
+) -> StripPlan:
     """Lay out the strip's longitudinal section and plans at 1:scale, cross-section at
-    1:detail_scale, in the strip's model coordinates."""
+    1:detail_scale, in the strip's model coordinates. The section callout of every bar set in
+    ``changed_set_ids`` ((strip id, set id) pairs: set ids are unique within a strip only) gets
+    a marker of ``revision`` beside it."""
     for b in sd.bar_sets:
         if not b.mark:
             raise ValueError(
                 f"bar set {b.strip_id}/{b.set_id} has no mark; assign marks before drawing"
             )
     main = View()
-    bottom = _section(sd, scale, main)
+    marked = changed_set_ids if revision else frozenset()
+    bottom = _section(sd, scale, main, revision, marked)
     geom = StripGeometry.of(sd.strip)
     y = bottom - 14.0 * scale
     for face in ("bottom", "top"):
@@ -177,7 +187,9 @@ def plan_strip(sd: StripDetail, scale: int, detail_scale: int) -> StripPlan:
 # Longitudinal section
 
 
-def _section(sd: StripDetail, s: int, v: View) -> float:
+def _section(
+    sd: StripDetail, s: int, v: View, revision: str, marked: frozenset[tuple[str, str]]
+) -> float:
     """Draw the section; return the lowest y used (model mm)."""
     strip = sd.strip
     geom = StripGeometry.of(strip)
@@ -211,7 +223,9 @@ def _section(sd: StripDetail, s: int, v: View) -> float:
                 v.dots.append(Dot(lay, x, y, dia, bar_fields(b, "section")))
             pref = _at(b, 0.7)
             cands = sorted(xs, key=lambda x: (abs(x - pref), x))[:12]
-            anchors.append(_label(b, "top" if top else "bottom", [(x, y) for x in cands], s))
+            anchors.append(
+                _label(b, "top" if top else "bottom", [(x, y) for x in cands], s, revision, marked)
+            )
             continue
         base = levels.get(b.layer, levels["T1" if top else "B1"])
         y = base + (-1 if top else 1) * tracks.get(b.set_id, 0) * _track_step(strip, sd, top, s)
@@ -223,7 +237,7 @@ def _section(sd: StripDetail, s: int, v: View) -> float:
         )
         run = _main_run(corners, y)
         cands = [(run[0] + f * (run[1] - run[0]), y) for f in _FRACTIONS]
-        anchors.append(_label(b, "top" if top else "bottom", cands, s))
+        anchors.append(_label(b, "top" if top else "bottom", cands, s, revision, marked))
 
     # dimensions next to the concrete, labels beyond them, spans and grid outermost
     targets = curtailment_targets(strip, sd.bar_sets, geom)
@@ -296,8 +310,11 @@ def _track_step(strip, sd: StripDetail, top: bool, s: int) -> float:
     return min(max(float(phi), 0.5 * s), room)
 
 
-def _label(b: BarSet, face: str, candidates, s: int) -> LabelSpec:
+def _label(
+    b: BarSet, face: str, candidates, s: int, revision: str, marked: frozenset[tuple[str, str]]
+) -> LabelSpec:
     height = PAPER.text_mm * s
+    letter = revision if (b.strip_id, b.set_id) in marked else ""
     return LabelSpec(
         face=face,
         text=b.callout,
@@ -305,6 +322,19 @@ def _label(b: BarSet, face: str, candidates, s: int) -> LabelSpec:
         width=text_width(b.callout, height),
         height=height,
         xdata=label_fields(b, "section"),
+        marker=letter,
+        marker_xdata=marker_fields(b, letter) if letter else (),
+    )
+
+
+def marker_fields(b: BarSet, revision: str) -> Fields:
+    """The XDATA of a revision marker: which revision changed which bar set."""
+    return (
+        ("kind", "revision_marker"),
+        ("revision", revision),
+        ("strip", b.strip_id),
+        ("set", b.set_id),
+        ("mark", b.mark),
     )
 
 

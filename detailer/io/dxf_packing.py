@@ -10,6 +10,8 @@ slightly generous), so a packed row leaves real space between its texts.
   from its bar. A callout takes the nearest row and the first of its anchor candidates where
   its text clears the row, its leader crosses no text nearer the concrete and no dimension
   text, and no leader from a farther row crosses its text.
+* A callout with a revision marker (:mod:`detailer.io.dxf_revision`) is packed with the
+  marker's room added beyond its text, so the marker clears the row too.
 """
 
 from __future__ import annotations
@@ -29,6 +31,7 @@ from dataclasses import dataclass, field
 
 from detailer.io import dxf_style as st
 from detailer.io.dxf_geometry import DimTarget, Dot, Fields, Poly, Text
+from detailer.io.dxf_revision import marker_primitives, marker_width_mm
 
 MAX_ROWS = 40
 
@@ -111,6 +114,12 @@ class LabelSpec:
     width: float
     height: float
     xdata: Fields = ()
+    marker: str = ""  # revision letter of a marker beside the text, "" for none
+    marker_xdata: Fields = ()
+
+    def room(self, s: int) -> float:
+        """Width of the text and its marker, model mm at 1:``s``."""
+        return self.width + marker_width_mm(self.marker) * s
 
 
 @dataclass(slots=True)
@@ -176,6 +185,13 @@ def pack_labels(
                 lab.xdata,
             )
         )
+        if lab.marker:
+            far = tx + lab.width if right else tx - lab.width
+            tri, letter = marker_primitives(
+                lab.marker, far, yr, 1 if right else -1, s, lab.marker_xdata
+            )
+            result.leaders.append(tri)
+            result.texts.append(letter)
     if placed:
         top = max(p[1] for p in placed)
         result.edge = y_base + direction * (top * pitch + 0.5 * paper.text_mm * s + s)
@@ -198,8 +214,8 @@ def _place(labels: Sequence[LabelSpec], order: Sequence[int], s: int, dims: Pack
 
     def span(lab: LabelSpec, x: float, right: bool) -> tuple[float, float]:
         if right:
-            return (x - clear, x + land + gap + lab.width + clear)
-        return (x - land - gap - lab.width - clear, x + clear)
+            return (x - clear, x + land + gap + lab.room(s) + clear)
+        return (x - land - gap - lab.room(s) - clear, x + clear)
 
     for i in order:
         lab = labels[i]

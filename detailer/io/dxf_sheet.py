@@ -3,7 +3,8 @@
 Pure. One sheet per strip, ISO 216 A2 or A1 landscape (A2 594 x 420, A1 841 x 594 mm), with a
 frame 20 mm from the left (filing) edge and 10 mm from the others (ISO 5457, from memory). The
 right-hand column holds the cross-section viewport, the general notes and the title block; the
-rest holds one viewport on the section and plans at a standard scale.
+rest holds one viewport on the section and plans at a standard scale. The revision table,
+when there are revisions, stands on the title block (:mod:`detailer.io.dxf_revision`).
 
 Choice: A2 when the strip fits it at 1:50 or larger, else A1 at the largest standard scale that
 fits (1:20, 1:25, 1:50, 1:75, 1:100; beyond that 1:200, 1:250, 1:500 for very long strips).
@@ -31,8 +32,10 @@ from dataclasses import dataclass
 from detailer import CAUTION, __version__
 from detailer.io.dxf_geometry import Box
 from detailer.io.dxf_layout import StripPlan, plan_strip
+from detailer.io.dxf_revision import RevisionTable, revision_table, table_height_mm
 from detailer.layout import BarRole, StripDetail
 from detailer.model import Project
+from detailer.record import RevisionRecord
 
 
 @dataclass(frozen=True, slots=True)
@@ -78,6 +81,7 @@ class SheetPlan:
     detail: Viewport
     notes_top: float  # paper y of the first notes line
     title_box: Box
+    revision_table: RevisionTable | None = None  # on the title block; None: no revisions
 
 
 def _fits_detail(plan: StripPlan) -> bool:
@@ -99,11 +103,28 @@ def notes_lines_count(lines: tuple[str, ...]) -> int:
     return len(wrap_notes(lines))
 
 
-def choose_sheet(project: Project, sd: StripDetail) -> SheetPlan:
-    """The sheet, scales and viewports for one strip (see the module docstring for the rule)."""
+def choose_sheet(
+    project: Project,
+    sd: StripDetail,
+    *,
+    revisions: tuple[RevisionRecord, ...] = (),
+    changed_set_ids: frozenset[tuple[str, str]] = frozenset(),
+) -> SheetPlan:
+    """The sheet, scales and viewports for one strip (see the module docstring for the rule).
+
+    ``revisions`` fill the revision table (oldest first); bar sets in ``changed_set_ids`` get
+    a marker of the newest revision (the project's when ``revisions`` is empty); they are
+    (strip id, set id) pairs, set ids being unique within a strip only.
+    """
+    letter = revisions[-1].revision if revisions else project.revision
+    changed = frozenset(changed_set_ids)
+
+    def plan_at(scale: int, ds: int) -> StripPlan:
+        return plan_strip(sd, scale, ds, revision=letter, changed_set_ids=changed)
+
     detail_scale = DETAIL_SCALES[-1]
     for ds in DETAIL_SCALES:
-        if _fits_detail(plan_strip(sd, MAIN_SCALES[-1], ds)):
+        if _fits_detail(plan_at(MAIN_SCALES[-1], ds)):
             detail_scale = ds
             break
     n_notes = notes_lines_count(general_notes(project, sd))
@@ -111,9 +132,10 @@ def choose_sheet(project: Project, sd: StripDetail) -> SheetPlan:
     options += [(A1, s) for s in MAIN_SCALES + LONG_STRIP_SCALES]
     chosen = None
     for sheet, s in options:
-        plan = plan_strip(sd, s, detail_scale)
+        plan = plan_at(s, detail_scale)
         area = _main_area(sheet)
         column_h = DETAIL_MAX_H_MM + 14.0 + n_notes * NOTE_LINE_MM + TITLE_BLOCK_H_MM
+        column_h += table_height_mm(revisions, COLUMN_MM)
         if (
             plan.main_box.width / s <= area.width
             and plan.main_box.height / s <= area.height
@@ -122,12 +144,14 @@ def choose_sheet(project: Project, sd: StripDetail) -> SheetPlan:
             chosen = (sheet, plan)
             break
     if chosen is None:  # longer than 1:500 on A1 allows: keep 1:500, the viewport crops
-        chosen = (A1, plan_strip(sd, LONG_STRIP_SCALES[-1], detail_scale))
+        chosen = (A1, plan_at(LONG_STRIP_SCALES[-1], detail_scale))
     sheet, plan = chosen
-    return _sheet_plan(sheet, plan)
+    return _sheet_plan(sheet, plan, revisions)
 
 
-def _sheet_plan(sheet: Sheet, plan: StripPlan) -> SheetPlan:
+def _sheet_plan(
+    sheet: Sheet, plan: StripPlan, revisions: tuple[RevisionRecord, ...] = ()
+) -> SheetPlan:
     frame = Box(FRAME_LEFT_MM, FRAME_MM, sheet.width_mm - FRAME_MM, sheet.height_mm - FRAME_MM)
     column = Box(frame.x1 - COLUMN_MM, frame.y0, frame.x1, frame.y1)
     area = _main_area(sheet)
@@ -154,7 +178,8 @@ def _sheet_plan(sheet: Sheet, plan: StripPlan) -> SheetPlan:
     )
     notes_top = column.y1 - 6.0 - dh - 8.0
     title_box = Box(column.x0, column.y0, column.x1, column.y0 + TITLE_BLOCK_H_MM)
-    return SheetPlan(sheet, plan, frame, column, main, detail, notes_top, title_box)
+    table = revision_table(revisions, column.x0, column.x1, title_box.y1)
+    return SheetPlan(sheet, plan, frame, column, main, detail, notes_top, title_box, table)
 
 
 def _mm(value: float) -> str:

@@ -20,6 +20,7 @@ __all__ = [
     "LINETYPES",
     "NOTES_LAYER",
     "OUTLINE_LAYER",
+    "REVISION_LAYER",
     "SUPPORT_LAYER",
     "TEXT_STYLE",
     "TITLE_LAYER",
@@ -84,6 +85,9 @@ LABEL_LAYER: Final = LayerStyle("SW-LABELS", 250, "Continuous", 18, "bar callout
 DIMENSION_LAYER: Final = LayerStyle("SW-DIMENSIONS", 134, "Continuous", 18, "dimensions")
 NOTES_LAYER: Final = LayerStyle("SW-NOTES", 251, "Continuous", 18, "notes and view titles")
 TITLE_LAYER: Final = LayerStyle("SW-TITLE", 174, "Continuous", 35, "sheet frame, title block")
+REVISION_LAYER: Final = LayerStyle(
+    "SW-REVISIONS", 6, "Continuous", 25, "revision markers beside changed bar sets"
+)
 VIEWPORT_LAYER: Final = LayerStyle(
     "SW-VIEWPORTS", 9, "Continuous", 13, "viewport frames (not plotted)", plot=False
 )
@@ -100,6 +104,7 @@ LAYERS: Final[tuple[LayerStyle, ...]] = (
     DIMENSION_LAYER,
     NOTES_LAYER,
     TITLE_LAYER,
+    REVISION_LAYER,
     VIEWPORT_LAYER,
 )
 

@@ -4,11 +4,16 @@ Model space holds, per strip, a region stacked below the previous one: the longi
 section at 1:1 (x as in the detail, so bar positions read back unchanged), the bottom and top
 plans, and cross-section 1-1 to the right. Paper space holds one sheet per strip, layout
 "Strip <id>": frame, a viewport on the section and plans at a standard scale, a viewport on the
-cross-section, the general notes and the title block (:mod:`detailer.io.dxf_sheet`).
+cross-section, the general notes and the title block (:mod:`detailer.io.dxf_sheet`), and, when
+revisions are given, the revision table on the title block; bar sets changed at the revision
+being issued get a revision marker beside their section callout, on layer ``SW-REVISIONS``
+(:mod:`detailer.io.dxf_revision`).
 
 Every bar entity carries XDATA under the application id ``SLABWRIGHT`` (mark, strip, set,
 layer, count, type and size, spacing, length, shape code and dimensions, x_start, x_end); so do
-callouts and dimensions. :mod:`detailer.io.dxf_readback` reads them back.
+callouts and dimensions; revision markers carry ``kind=revision_marker``, the revision, strip,
+set and mark, and table texts ``kind=revision_table``. :mod:`detailer.io.dxf_readback` reads
+bars, callouts and dimensions back and passes over the rest.
 
 :func:`write_layout` is pure: it returns the bytes; the same input gives the same bytes (fixed
 header metadata, handles in creation order, numbers formatted with fixed decimals).
@@ -21,7 +26,7 @@ __all__ = ["build_layout", "layout_name", "write_layout", "write_layout_file"]
 import contextlib
 import io
 import re
-from collections.abc import Iterator
+from collections.abc import Iterable, Iterator
 from pathlib import Path
 
 import ezdxf
@@ -34,6 +39,13 @@ from detailer.io import dxf_style as st
 from detailer.io.atomic import write_output
 from detailer.io.dxf_geometry import Fields
 from detailer.io.dxf_layout import View
+from detailer.io.dxf_revision import (
+    TABLE_LINE_MM,
+    TABLE_ROW_MM,
+    TABLE_TEXT_MM,
+    RevisionRow,
+    RevisionTable,
+)
 from detailer.io.dxf_sheet import (
     NOTE_LINE_MM,
     NOTE_TEXT_MM,
@@ -44,6 +56,7 @@ from detailer.io.dxf_sheet import (
     wrap_notes,
 )
 from detailer.layout import ProjectDetail
+from detailer.record import RevisionRecord
 
 #: Gap between two strips' regions in model space, mm.
 REGION_GAP_MM = 10000.0
@@ -66,23 +79,50 @@ def _fixed_metadata() -> Iterator[None]:
         ezdxf.options.write_fixed_meta_data_for_testing = old
 
 
-def write_layout(detail: ProjectDetail) -> bytes:
-    """The layout drawing of a detailed project (bar sets carrying marks) as DXF bytes."""
+def write_layout(
+    detail: ProjectDetail,
+    revisions: Iterable[RevisionRecord] = (),
+    changed_set_ids: Iterable[tuple[str, str]] = frozenset(),
+) -> bytes:
+    """The layout drawing of a detailed project (bar sets carrying marks) as DXF bytes.
+
+    ``revisions``: every issue so far, oldest first, this one last (the revision table);
+    ``changed_set_ids``: (strip id, set id) of the bar sets added or changed at this issue (a
+    marker of the newest revision beside each; set ids are unique within a strip only).
+    Without them the sheets have neither.
+    """
     stream = io.StringIO()
     with _fixed_metadata():
-        build_layout(detail).write(stream)
+        build_layout(detail, revisions, changed_set_ids).write(stream)
     return stream.getvalue().encode("utf-8")
 
 
-def write_layout_file(path: Path, detail: ProjectDetail) -> None:
+def write_layout_file(
+    path: Path,
+    detail: ProjectDetail,
+    revisions: Iterable[RevisionRecord] = (),
+    changed_set_ids: Iterable[tuple[str, str]] = frozenset(),
+) -> None:
     """Write the layout DXF atomically (an ``OutputError`` names the path and the fix)."""
-    write_output(Path(path), write_layout(detail))
+    write_output(Path(path), write_layout(detail, revisions, changed_set_ids))
 
 
-def build_layout(detail: ProjectDetail) -> Drawing:
+def build_layout(
+    detail: ProjectDetail,
+    revisions: Iterable[RevisionRecord] = (),
+    changed_set_ids: Iterable[tuple[str, str]] = frozenset(),
+) -> Drawing:
     """The ezdxf document of the layout drawing (see the module docstring)."""
     project = detail.project
-    plans = [choose_sheet(project, sd) for sd in detail.strips]
+    history = tuple(revisions)
+    changed = frozenset(changed_set_ids)
+    for pair in changed:
+        if not (isinstance(pair, tuple) and len(pair) == 2):
+            raise ValueError(f"changed_set_ids holds (strip id, set id) pairs, not {pair!r}")
+    plans = [
+        choose_sheet(project, sd, revisions=history, changed_set_ids=changed)
+        for sd in detail.strips
+    ]
     doc = ezdxf.new("R2013", setup=False, units=units.MM)
     _setup(doc, plans)
     msp = doc.modelspace()
@@ -270,6 +310,8 @@ def _sheet(
             e.set_placement((c.x0 + 4.0, y), align=TextEntityAlignment.TOP_LEFT)
         y -= NOTE_LINE_MM
     _title_block(psp, sp, title_fields(project, sd, sp, index, total))
+    if sp.revision_table is not None:
+        _revision_table(psp, sp.revision_table)
 
 
 def _title_block(psp, sp: SheetPlan, fields) -> None:
@@ -289,3 +331,39 @@ def _title_block(psp, sp: SheetPlan, fields) -> None:
         for x, text, h in ((b.x0 + 2.0, caption, 2.0), (b.x0 + cap_w + 2.0, value, min(2.5, fit))):
             e = psp.add_text(text, height=h, dxfattribs=_attribs(lay, style=st.TEXT_STYLE))
             e.set_placement((x, ym), align=TextEntityAlignment.MIDDLE_LEFT)
+
+
+def _revision_table(psp, table: RevisionTable) -> None:
+    """The revision table on the title block: header row lowest, newest revision on top."""
+    lay = st.TITLE_LAYER.name
+    b = table.box
+    psp.add_lwpolyline(
+        [(b.x0, b.y0), (b.x1, b.y0), (b.x1, b.y1), (b.x0, b.y1)],
+        close=True,
+        dxfattribs=_attribs(lay, lineweight=35),
+    )
+    for x in table.columns_x:
+        psp.add_line((x, b.y0), (x, b.y1), dxfattribs=_attribs(lay, lineweight=13))
+    for row in table.rows:  # each row's lower edge (the header's upper edge is the first)
+        psp.add_line((b.x0, row.y0), (b.x1, row.y0), dxfattribs=_attribs(lay, lineweight=13))
+    _table_row(psp, table, table.header, (("kind", "revision_table"), ("row", "header")))
+    for row in table.rows:
+        fields = (("kind", "revision_table"), ("row", "revision"), ("revision", row.revision))
+        _table_row(psp, table, row, fields)
+
+
+def _table_row(psp, table: RevisionTable, row: RevisionRow, fields) -> None:
+    lay = st.TITLE_LAYER.name
+    x_rev, (x_date, x_desc) = table.box.x0, table.columns_x
+    y_first = row.y1 - TABLE_ROW_MM / 2  # middle of the first line
+    cells = [("rev", x_rev, row.revision, y_first), ("date", x_date, row.date, y_first)]
+    cells += [
+        ("description", x_desc, line, y_first - k * TABLE_LINE_MM)
+        for k, line in enumerate(row.lines)
+    ]
+    for column, x, text, y in cells:
+        if not text:
+            continue
+        e = psp.add_text(text, height=TABLE_TEXT_MM, dxfattribs=_attribs(lay, style=st.TEXT_STYLE))
+        e.set_placement((x + 2.0, y), align=TextEntityAlignment.MIDDLE_LEFT)
+        _xdata(e, (*fields, ("column", column)))

@@ -26,6 +26,8 @@ from detailer.report.design_sections import (
 )
 from detailer.report.input_sections import actions_section, analysis_section, input_section
 from detailer.report.markup import Json, c, esc, k, num, raw, table, tag
+from detailer.report.revision_section import revisions_section
+from detailer.revisions import RevisionDiff
 from detailer.schedule import Schedule
 
 CSS = """
@@ -73,6 +75,7 @@ figcaption { font-size: 7.6pt; color: #333; margin-top: 1mm; }
 ol.arrangements { margin: 1mm 0 2mm 5mm; padding-left: 4mm; font-size: 8pt; columns: 2; }
 .warn { color: #8a4b00; }
 .schedule { break-before: page; }
+tr.current td, tr.total td { font-weight: bold; }
 @media screen { body { padding: 8mm; } }
 """
 
@@ -186,8 +189,13 @@ def render_report(
     *,
     input_name: str,
     input_sha256: str,
+    changes: RevisionDiff | None = None,
 ) -> bytes:
-    """The calculation report as UTF-8 HTML bytes (same input, same bytes)."""
+    """The calculation report as UTF-8 HTML bytes (same input, same bytes).
+
+    ``changes``: this issue against the previous one (:func:`detailer.revisions.compare_records`),
+    shown in the "Revisions" section; ``None`` at a first issue.
+    """
     r = record_to_jsonable(record)
     if len(r["strips"]) != len(detail.strips):
         raise ValueError("the record and the detailed project have different strips")
@@ -195,6 +203,7 @@ def render_report(
     body = [
         _caution(),
         _header(r, input_name=input_name, input_sha256=input_sha256),
+        revisions_section(r, changes),
         _conventions(),
         _overview(r),
     ]
