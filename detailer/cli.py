@@ -9,6 +9,7 @@ from __future__ import annotations
 __all__ = ["EXIT_INPUT_ERROR", "EXIT_OK", "format_check", "main"]
 
 import argparse
+import os
 import sys
 from collections.abc import Sequence
 from typing import TextIO
@@ -88,6 +89,16 @@ def _parser() -> argparse.ArgumentParser:
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
+    try:
+        return _main(argv)
+    except BrokenPipeError:
+        # The reader went away (e.g. `| head`): not an error of ours, and no traceback.
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        return EXIT_OK
+
+
+def _main(argv: Sequence[str] | None) -> int:
     args = _parser().parse_args(argv)
     if args.version:
         print(f"slabwright {__version__}\n{CAUTION}")

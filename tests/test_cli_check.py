@@ -77,3 +77,28 @@ def test_python_m_detailer_bad_file(tmp_path: Path) -> None:
     assert proc.stdout == ""
     assert "Traceback" not in proc.stderr
     assert all(line.startswith(f"{bad}:") for line in proc.stderr.splitlines())
+
+
+def test_reader_closing_the_pipe_early_is_not_a_traceback(monkeypatch, tmp_path) -> None:
+    # Regression: `slabwright ... | head -1` printed a BrokenPipeError traceback (common
+    # practice for command-line tools: a closed pipe ends the output quietly).
+    import sys
+
+    from detailer.cli import main
+
+    sink = open(tmp_path / "sink", "w")  # noqa: SIM115 - its descriptor is redirected
+
+    class ClosedPipe:
+        def write(self, text: str) -> int:
+            raise BrokenPipeError(32, "Broken pipe")
+
+        def flush(self) -> None:
+            raise BrokenPipeError(32, "Broken pipe")
+
+        def fileno(self) -> int:
+            return sink.fileno()
+
+    sample = Path(__file__).resolve().parents[1] / "sample_projects" / "quayside-terrace.yaml"
+    monkeypatch.setattr(sys, "stdout", ClosedPipe())
+    assert main(["check", str(sample)]) == 0
+    sink.close()
