@@ -14,8 +14,8 @@ supports, group "b" only where the demand needs it. Detailing rules applied here
 * top bars at monolithic ends and over pinned ends: turned down into the support as L-bars;
 * cantilevers: top bars run to the free edge and back past the shifted point of contraflexure
   plus l_bd; a U-bar closes the free edge (9.3.1.4);
-* bar runs longer than the stock length are split into two staggered halves with laps per
-  8.7.3, placed where the demand on that face is least.
+* bar runs longer than the stock length are split in ``detailer.laps``; U-bars and
+  distribution bars are in ``detailer.secondary``.
 
 Everything here is geometry along the strip (x in mm) and bar sets; the code's numbers come in
 through the ``DesignCode`` and the anchorage table.
@@ -23,7 +23,6 @@ through the ``DesignCode`` and the anchorage table.
 
 from __future__ import annotations
 
-import itertools
 import math
 from dataclasses import dataclass, replace
 
@@ -33,12 +32,11 @@ from detailer import simplified
 from detailer.codes.base import ConcreteSteel, DesignCode
 from detailer.demand import DemandCurve, intervals_above
 from detailer.design import B_MM, ZoneSpec, as_per_m
-from detailer.errors import DesignError
 from detailer.layout import BarRole, BarSet, Face, ZoneDesign
-from detailer.model import Project, Strip
+from detailer.model import Strip
 from detailer.schedule import bar_count, principal_bar_count
 from detailer.shapes import detailing as shape_helpers
-from detailer.shapes.bs8666 import ScheduledShape, ShapeError, make_shape
+from detailer.shapes.bs8666 import ScheduledShape, make_shape
 from detailer.shapes.table2 import bending_limits
 
 #: A staged (alternate-bar) layout is used only when group b is at most this share of group a's
@@ -473,153 +471,6 @@ def _bottom_end(
     return sup.x_mm - sup.width_mm / 2 + reach, 0.0
 
 
-def developed_mm(run: Run) -> float:
-    """Length of bar a run needs: the horizontal run plus its legs."""
-    return (run.x_end_mm - run.x_start_mm) + run.ends.left_leg_mm + run.ends.right_leg_mm
-
-
-def split_for_stock(
-    run: Run,
-    *,
-    stock_mm: float,
-    lap_mm: float,
-    curve: DemandCurve,
-    avoid_mm: tuple[float, ...] = (),
-    min_gap_mm: float = 0.0,
-) -> tuple[Run, ...]:
-    """Split a run longer than the stock length into pieces lapped by ``lap_mm``.
-
-    Each lap centre is put where the (unshifted) demand on that face is least within the reach
-    of the piece, and at least ``min_gap_mm`` from every centre in ``avoid_mm`` (the laps of the
-    alternate bars: centres 1.3 l_0 apart are not in the same lapped section, EN 1992-1-1:2004,
-    8.7.2(3) and 8.7.3(1)). Pieces of one run get consecutive suffixes 1, 2, ...
-    """
-    if developed_mm(run) <= stock_mm:
-        return (run,)
-    if lap_mm >= stock_mm / 2:
-        raise DesignError(
-            f"zone {run.zone_id}: lap {lap_mm:.0f} mm is too long for {stock_mm:.0f} mm stock bars; "
-            "use smaller bars or longer stock lengths"
-        )
-    pieces: list[Run] = []
-    start = run.x_start_mm
-    left_leg = run.ends.left_leg_mm
-    grid = curve.x_mm
-    avoid = np.asarray(avoid_mm, dtype=float)
-    k = 1
-    while True:
-        reach = stock_mm - left_leg  # horizontal length this piece may have
-        if run.x_end_mm - start + run.ends.right_leg_mm <= reach + 1e-6:
-            pieces.append(_piece(run, k, start, run.x_end_mm, left_leg, run.ends.right_leg_mm))
-            break
-        hi = start + reach - lap_mm / 2
-        # aim at equal pieces, then look for low demand within a quarter piece of the aim
-        remaining = run.x_end_mm - start + left_leg + run.ends.right_leg_mm
-        n_left = max(math.ceil((remaining - lap_mm) / (stock_mm - lap_mm) - 1e-9), 2)
-        piece = (remaining + (n_left - 1) * lap_mm) / n_left
-        aim = start - left_leg + piece - lap_mm / 2
-        lo = max(start + 1.5 * lap_mm, aim - 0.25 * piece)
-        hi = min(hi, aim + 0.25 * piece)
-        sel = (grid >= lo) & (grid <= hi)
-        if avoid.size:
-            sel &= np.min(np.abs(grid[:, None] - avoid[None, :]), axis=1) >= min_gap_mm
-        if np.any(sel):
-            cand = grid[sel]
-            vals = curve.m_knm_per_m[sel]
-            # least demand; among equals the one nearest the aim
-            best = np.flatnonzero(vals <= vals.min() + 1e-6)
-            centre = float(cand[best[int(np.argmin(np.abs(cand[best] - aim)))]])
-        else:
-            centre = hi
-        pieces.append(_piece(run, k, start, centre + lap_mm / 2, left_leg, 0.0))
-        start = centre - lap_mm / 2
-        left_leg = 0.0
-        k += 1
-        if k > 1000:
-            raise DesignError(f"zone {run.zone_id}: cannot split the bar run for stock lengths")
-    return tuple(pieces)
-
-
-def lap_centres_mm(pieces: tuple[Run, ...]) -> tuple[float, ...]:
-    """Centres of the laps between consecutive pieces of one run."""
-    return tuple(0.5 * (a.x_end_mm + b.x_start_mm) for a, b in itertools.pairwise(pieces))
-
-
-def split_zone_runs(
-    runs: tuple[Run, ...],
-    *,
-    stock_mm: float,
-    lap_mm: float,
-    curve: DemandCurve,
-    lap_all_mm: float | None = None,
-) -> tuple[Run, ...]:
-    """Split a zone's runs for stock lengths with staggered laps.
-
-    A single group that needs laps becomes two alternate groups so that only half of the bars
-    are lapped at any section; the second group's laps keep 1.3 l_0 clear of the first's.
-    ``lap_mm`` is l_0 for half the bars lapped at a section; where the other group does not
-    run past a lap (so every bar there is lapped) the lap is ``lap_all_mm`` (alpha_6 for
-    100 %, EN 1992-1-1:2004, Table 8.3).
-    """
-    if all(developed_mm(r) <= stock_mm for r in runs):
-        return runs
-    lap_all = lap_mm if lap_all_mm is None else lap_all_mm
-    if len(runs) == 1:
-        r = runs[0]
-        note = "alternate bars, laps staggered"
-        runs = (
-            replace(
-                r, set_id=f"{r.set_id}-a", spacing_mm=2 * r.spacing_mm, offset_mm=0.0, note=note
-            ),
-            replace(
-                r,
-                set_id=f"{r.set_id}-b",
-                spacing_mm=2 * r.spacing_mm,
-                offset_mm=float(r.spacing_mm),
-                note=note,
-            ),
-        )
-    out: list[Run] = []
-    centres: tuple[float, ...] = ()
-    for k, r in enumerate(runs):
-        others = [o for j, o in enumerate(runs) if j != k]
-        pieces = ()
-        for lap in (lap_mm, lap_all):
-            pieces = split_for_stock(
-                r,
-                stock_mm=stock_mm,
-                lap_mm=lap,
-                curve=curve,
-                avoid_mm=centres,
-                min_gap_mm=1.3 * lap,
-            )
-            # half lapped only where the other group runs through the whole lap zone
-            if all(
-                any(o.x_start_mm <= c - 0.65 * lap and o.x_end_mm >= c + 0.65 * lap for o in others)
-                for c in lap_centres_mm(pieces)
-            ):
-                break
-        centres = centres + lap_centres_mm(pieces)
-        out.extend(pieces)
-    return tuple(out)
-
-
-def _piece(run: Run, k: int, x0: float, x1: float, left_leg: float, right_leg: float) -> Run:
-    return Run(
-        f"{run.set_id}{k}",
-        run.zone_id,
-        run.face,
-        run.layer,
-        run.phi_mm,
-        run.spacing_mm,
-        run.offset_mm,
-        x0,
-        x1,
-        BarEnds(left_leg, right_leg),
-        (run.note + "; " if run.note else "") + f"lapped length, piece {k}",
-    )
-
-
 def run_shape(run: Run, bar_type: str, rules) -> ScheduledShape:
     """BS 8666 shape of a run: straight (00/01), an L (11) or a U with both legs turned (21)."""
     horizontal = run.x_end_mm - run.x_start_mm
@@ -663,148 +514,15 @@ def _principal_count(strip: Strip, spacing_mm: float, offset_mm: float) -> int:
     return bar_count(strip.panel_width_mm - 2 * strip.cover_side_mm - offset_mm, spacing_mm)
 
 
-def u_bar_set(
-    strip: Strip,
-    top_zone: ZoneDesign,
-    geom: StripGeometry,
-    at_left: bool,
-    bar_type: str,
-    rules,
-    diameters: tuple[int, ...] = (),
-) -> BarSet:
-    """U-bars closing a free cantilever edge (EN 1992-1-1:2004, 9.3.1.4(1)), one per top bar.
-
-    The U takes the top bars' size where it can be bent to fit between the covers (BS 8666
-    minimum lengths between bends); otherwise the largest smaller allowed size that fits.
-    """
-    leg = U_BAR_LEG_OVER_H * strip.thickness_mm
-    sizes = [top_zone.phi_mm] + sorted((p for p in diameters if p < top_zone.phi_mm), reverse=True)
-    shape = None
-    first_error: ShapeError | None = None
-    for phi in sizes:
-        try:
-            shape = shape_helpers.u_bar(
-                phi,
-                strip.thickness_mm,
-                strip.cover_top_mm,
-                strip.cover_bottom_mm,
-                leg,
-                bar_type=bar_type,
-                rules=rules,
-            )
-            break
-        except ShapeError as exc:
-            first_error = first_error or exc
-    if shape is None:
-        raise DesignError(
-            f"strip {strip.id}: no allowed bar size bends into a U-bar for the free edge inside "
-            f"h = {strip.thickness_mm:g} mm less the covers ({first_error}); allow a smaller bar "
-            "size or reduce the covers"
-        )
-    x0 = geom.bar_left_mm if at_left else geom.bar_right_mm - shape.dim("A")
-    return BarSet(
-        strip_id=strip.id,
-        set_id=f"{top_zone.zone_id}-U",
-        role=BarRole.PRINCIPAL,
-        layer="T1",
-        zone_id=top_zone.zone_id,
-        bar_type=bar_type,
-        phi_mm=shape.phi_mm,
-        spacing_mm=top_zone.spacing_mm,
-        offset_mm=0.0,
-        count=principal_bar_count(strip.panel_width_mm, strip.cover_side_mm, top_zone.spacing_mm),
-        x_start_mm=round(x0, 1),
-        x_end_mm=round(x0 + shape.dim("A"), 1),
-        shape=shape,
-        note="U-bars at the free edge",
-    )
-
-
-def distribution_set(
-    strip: Strip,
-    project: Project,
-    code: DesignCode,
-    *,
-    set_id: str,
-    zone_id: str,
-    face: Face,
-    x_start_mm: float,
-    x_end_mm: float,
-    as_principal_mm2_per_m: float,
-    bar_type: str,
-    rules,
-    lap_for: callable,
-) -> tuple[BarSet, ...]:
-    """Transverse bars: at least 20 % of the principal steel (9.3.1.1(2)), spacing within the
-    secondary limit of 9.3.1.1(3); across the panel, split with laps beyond the stock length."""
-    need = code.secondary_min(as_principal_mm2_per_m)
-    s_max = code.max_spacing(strip.thickness_mm, principal=False, high_moment_zone=False)
-    opts = project.reinforcement
-    best = None
-    for phi in opts.diameters_mm:
-        for s in opts.spacings_mm:
-            if s > s_max + 1e-9:
-                continue
-            a = as_per_m(phi, s)
-            if a < need - 1e-9:
-                continue
-            key = (round(a, 6), -s, phi)
-            if best is None or key < best[0]:
-                best = (key, phi, s)
-    if best is None:
-        raise DesignError(
-            f"strip {strip.id}: no allowed bar size and spacing gives the distribution steel "
-            f"of zone {zone_id} ({need:.0f} mm2/m); allow closer spacings"
-        )
-    _, phi, s = best
-    layer = "T2" if face is Face.TOP else "B2"
-    across = strip.panel_width_mm - 2 * strip.cover_side_mm
-    count = bar_count(max(x_end_mm - x_start_mm, 0.0), s)
-    stock = opts.stock_length_mm
-    lengths: list[float]
-    if across <= stock:
-        lengths = [across]
-    else:
-        lap = lap_for(phi, face)
-        n = math.ceil((across - lap) / (stock - lap))
-        piece = (across + (n - 1) * lap) / n
-        lengths = [piece] * n
-    out = []
-    for k, length in enumerate(lengths, start=1):
-        shape = shape_helpers.straight(phi, length, bar_type=bar_type, rules=rules)
-        suffix = "" if len(lengths) == 1 else str(k)
-        out.append(
-            BarSet(
-                strip_id=strip.id,
-                set_id=f"{set_id}{suffix}",
-                role=BarRole.DISTRIBUTION,
-                layer=layer,
-                zone_id=zone_id,
-                bar_type=bar_type,
-                phi_mm=phi,
-                spacing_mm=s,
-                offset_mm=0.0,
-                count=count,
-                x_start_mm=round(x_start_mm, 1),
-                x_end_mm=round(x_end_mm, 1),
-                shape=shape,
-                note="distribution bars across the panel"
-                + ("" if len(lengths) == 1 else f", lapped, piece {k} of {len(lengths)}"),
-            )
-        )
-    return tuple(out)
-
-
 __all__ = [
     "Anchorages",
     "BarEnds",
     "Run",
     "StripGeometry",
-    "distribution_set",
+    "end_face_mm",
+    "leg_mm",
     "m_rd_knm_per_m",
     "principal_runs",
     "run_to_barset",
-    "split_for_stock",
-    "split_zone_runs",
-    "u_bar_set",
+    "straight_past_face_mm",
 ]
