@@ -14,7 +14,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from detailer.layout import BarRole, BarSet
+from detailer.layout import BarSet
 from detailer.marks import (
     LAYER_ORDER,
     BarIdentity,
@@ -25,7 +25,7 @@ from detailer.marks import (
     mark_table,
     withdrawn_marks,
 )
-from detailer.shapes.bs8666 import make_shape
+from tests.bar_fixtures import make_bar_set
 
 
 def bar(
@@ -40,22 +40,10 @@ def bar(
 ) -> BarSet:
     """A hand-built bar set; straight (00) or an L bar (11, leg B = 300) of total run ``length``."""
     dims = {"A": length} if code == "00" else {"A": length, "B": 300}
-    role = BarRole.PRINCIPAL if layer.endswith("1") else BarRole.DISTRIBUTION
-    return BarSet(
-        strip_id=strip,
-        set_id=set_id,
-        role=role,
-        layer=layer,
+    return make_bar_set(
+        strip, set_id, layer, phi=phi, dims=dims, count=count, code=code, x_start=x_start,
         zone_id=f"{set_id}-zone",
-        bar_type="H",
-        phi_mm=phi,
-        spacing_mm=200,
-        offset_mm=0.0,
-        count=count,
-        x_start_mm=x_start,
-        x_end_mm=x_start + length,
-        shape=make_shape(code, phi, dims),
-    )
+    )  # fmt: skip
 
 
 def marks_by_set(strips: tuple[tuple[BarSet, ...], ...]) -> dict[tuple[str, str], str]:

@@ -30,7 +30,6 @@ from detailer.io.json_writer import (
 )
 from detailer.layout import (
     AnchorageLength,
-    BarRole,
     BarSet,
     Check,
     Face,
@@ -53,8 +52,8 @@ from detailer.model import (
 )
 from detailer.record import SCHEMA_VERSION, build_record, record_to_jsonable
 from detailer.schedule import build_schedule
-from detailer.shapes.bs8666 import make_shape
 from detailer.strip_analysis import analyse_strip
+from tests.bar_fixtures import make_bar_set
 
 DOCS = Path(__file__).resolve().parents[1] / "docs" / "record-schema.md"
 
@@ -108,21 +107,10 @@ def _bar(
     code: str = "00",
 ) -> BarSet:
     dims = {"A": length} if code == "00" else {"A": length, "B": 200}
-    return BarSet(
-        strip_id=strip,
-        set_id=set_id,
-        role=BarRole.PRINCIPAL if layer.endswith("1") else BarRole.DISTRIBUTION,
-        layer=layer,
+    return make_bar_set(
+        strip, set_id, layer, phi=phi, dims=dims, count=count, code=code, x_start=x,
         zone_id="S1-B",
-        bar_type="H",
-        phi_mm=phi,
-        spacing_mm=200,
-        offset_mm=0.0,
-        count=count,
-        x_start_mm=x,
-        x_end_mm=x + length,
-        shape=make_shape(code, phi, dims),
-    )
+    )  # fmt: skip
 
 
 def _zone(strip: str) -> ZoneDesign:

@@ -14,7 +14,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from detailer.layout import BarRole, BarSet
+from detailer.layout import BarSet
 from detailer.marks import assign_marks
 from detailer.schedule import (
     bar_count,
@@ -24,7 +24,7 @@ from detailer.schedule import (
     schedule_rows,
     summarise,
 )
-from detailer.shapes.bs8666 import make_shape
+from tests.bar_fixtures import make_bar_set
 
 # BS 4449:1997, Table 1: nominal mass per metre, kg/m.
 BS4449_KG_PER_M = {10: 0.616, 12: 0.888, 16: 1.579, 20: 2.466}
@@ -41,21 +41,7 @@ def bar(
     code: str = "00",
 ) -> BarSet:
     dims = {"A": length} if code == "00" else {"A": length, "B": 300}
-    return BarSet(
-        strip_id=strip,
-        set_id=set_id,
-        role=BarRole.PRINCIPAL if layer.endswith("1") else BarRole.DISTRIBUTION,
-        layer=layer,
-        zone_id="z",
-        bar_type="H",
-        phi_mm=phi,
-        spacing_mm=200,
-        offset_mm=0.0,
-        count=count,
-        x_start_mm=x,
-        x_end_mm=x + length,
-        shape=make_shape(code, phi, dims),
-    )
+    return make_bar_set(strip, set_id, layer, phi=phi, dims=dims, count=count, code=code, x_start=x)
 
 
 # ---- bar count (common practice: a bar at each end, floor(extent / spacing) + 1)

@@ -28,6 +28,7 @@ from detailer.model import (
 )
 from detailer.schedule import build_schedule
 from detailer.shapes.bs8666 import make_shape
+from tests.bar_fixtures import make_bar_set
 
 
 def _strip(strip_id: str, description: str = "") -> Strip:
@@ -62,21 +63,7 @@ PROJECT = Project(
 def _bar(
     strip: str, set_id: str, layer: str, phi: int, dims: dict[str, int], count: int, code: str
 ) -> BarSet:
-    return BarSet(
-        strip_id=strip,
-        set_id=set_id,
-        role=BarRole.PRINCIPAL,
-        layer=layer,
-        zone_id="z",
-        bar_type="H",
-        phi_mm=phi,
-        spacing_mm=200,
-        offset_mm=0.0,
-        count=count,
-        x_start_mm=0.0,
-        x_end_mm=float(dims["A"]),
-        shape=make_shape(code, phi, dims),
-    )
+    return make_bar_set(strip, set_id, layer, phi=phi, dims=dims, count=count, code=code)
 
 
 def _schedule():
