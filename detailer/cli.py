@@ -87,6 +87,13 @@ def _parser() -> argparse.ArgumentParser:
     return p
 
 
+def _input_errors(exc: ProjectError, err: TextIO) -> int:
+    """Print every mistake of a project file, one line each; the input-error exit code."""
+    for e in getattr(exc, "errors", (exc,)):
+        print(str(e), file=err)
+    return EXIT_INPUT_ERROR
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     try:
@@ -120,9 +127,7 @@ def _check(path: str, out: TextIO, err: TextIO) -> int:
     try:
         project = load_project(path)
     except ProjectError as exc:
-        for e in getattr(exc, "errors", (exc,)):
-            print(str(e), file=err)
-        return EXIT_INPUT_ERROR
+        return _input_errors(exc, err)
     except OSError as exc:  # load_project converts these; kept as a last guard
         print(f"{path}: cannot read the file: {exc.strerror or exc}; check the path", file=err)
         return EXIT_INPUT_ERROR
@@ -188,9 +193,7 @@ def _build(
     try:
         result, folder = build(path, out_dir, previous)
     except ProjectError as exc:
-        for e in getattr(exc, "errors", (exc,)):
-            print(str(e), file=err)
-        return EXIT_INPUT_ERROR
+        return _input_errors(exc, err)
     except BuildFailed as exc:
         for strip_id, reason in exc.failures:
             print(reason, file=err)
