@@ -8,6 +8,11 @@ vectorised row operation per DOF.
 
 Storage (as in LAPACK's lower band form): ``ab[k, j] = A[j + k, j]`` for
 ``k = 0 .. p`` and ``j + k < n``; entries past the end of the matrix are ignored.
+
+Block-diagonal matrices of many small blocks (a floor of strips: ``analysis.floor``) are
+factorised in lockstep: every block padded to the same size, column j of all blocks at once,
+so the Python loop runs over the DOFs of one block while numpy runs across the blocks.
+Storage ``ab[k, j, b] = A_b[j + k, j]`` for block b.
 """
 
 from __future__ import annotations
@@ -19,9 +24,11 @@ import numpy as np
 
 __all__ = [
     "BandedCholesky",
+    "BlockBandedCholesky",
     "NotPositiveDefiniteError",
     "band_from_dense",
     "cholesky_banded",
+    "cholesky_banded_blocks",
     "solve_banded_spd",
 ]
 
@@ -115,6 +122,71 @@ def cholesky_banded(ab: np.ndarray) -> BandedCholesky:
     for k in range(1, p1):
         lower[k, max(n - k, 0) :] = 0.0  # entries past the end of the matrix
     return BandedCholesky(lower)
+
+
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
+class BlockBandedCholesky:
+    """Cholesky factors of the blocks of a block-diagonal banded SPD matrix, in lockstep
+    storage ``(p + 1, n_b, n_blocks)``: ``lower[k, j, b] = L_b[j + k, j]``."""
+
+    lower: np.ndarray
+
+    def __post_init__(self) -> None:
+        self.lower.setflags(write=False)
+
+    def solve(self, b: np.ndarray) -> np.ndarray:
+        """Solve every block for its right-hand sides ``b`` of shape (n_b, n_blocks, m)."""
+        p1, n_b, n_blocks = self.lower.shape
+        b = np.asarray(b, dtype=float)
+        if b.ndim != 3 or b.shape[:2] != (n_b, n_blocks):
+            raise ValueError(f"right-hand sides must have shape ({n_b}, {n_blocks}, m)")
+        low = self.lower[..., None]  # broadcast over the right-hand sides
+        y = np.array(b)
+        for j in range(n_b):  # forward substitution L y = b
+            for k in range(1, min(p1, j + 1)):
+                y[j] -= low[k, j - k] * y[j - k]
+            y[j] /= low[0, j]
+        for j in range(n_b - 1, -1, -1):  # back substitution L^T x = y
+            for k in range(1, min(p1, n_b - j)):
+                y[j] -= low[k, j] * y[j + k]
+            y[j] /= low[0, j]
+        return y
+
+
+def cholesky_banded_blocks(ab: np.ndarray) -> tuple[BlockBandedCholesky, np.ndarray]:
+    """Factorise the blocks given in lockstep band storage ``(p + 1, n_b, n_blocks)``.
+
+    Returns the factors and a (n_blocks,) bool array of the blocks with a non-positive pivot
+    (the same test as ``cholesky_banded``); their factors are garbage.
+    """
+    ab = np.asarray(ab, dtype=float)
+    if ab.ndim != 3 or ab.shape[0] < 1:
+        raise ValueError("block band storage must have shape (p + 1, n_b, n_blocks)")
+    p1, n_b, n_blocks = ab.shape
+    a = np.array(ab)
+    diag0 = np.abs(ab[0])
+    bad = np.zeros(n_blocks, dtype=bool)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        for j in range(n_b):
+            d = a[0, j]
+            ok = (d > _PIVOT_RTOL * diag0[j]) & np.isfinite(d)
+            if not ok.all():
+                bad |= ~ok
+                d = np.where(ok, d, 1.0)
+            ljj = np.sqrt(d)
+            a[0, j] = ljj
+            m = min(p1 - 1, n_b - 1 - j)
+            col = [a[k, j] / ljj for k in range(1, m + 1)]
+            for k in range(1, m + 1):
+                a[k, j] = col[k - 1]
+            # Rank-1 update of the trailing band: A[j+k, j+i] -= L[j+k, j] L[j+i, j].
+            for i in range(1, m + 1):
+                ci = col[i - 1]
+                for k in range(i, m + 1):
+                    a[k - i, j + i] -= col[k - 1] * ci
+    for k in range(1, p1):
+        a[k, max(n_b - k, 0) :] = 0.0  # entries past the end of each block
+    return BlockBandedCholesky(a), bad
 
 
 def solve_banded_spd(ab: np.ndarray, b: np.ndarray) -> np.ndarray:

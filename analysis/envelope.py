@@ -49,6 +49,7 @@ __all__ = [
     "SupportSummary",
     "analyse_envelope",
     "analyse_envelope_variants",
+    "unit_cases",
 ]
 
 StationKind = Literal["m_max", "m_min", "v_max", "v_min"]
@@ -235,6 +236,47 @@ class StripEnvelope:
             for p in self._parts
         ]
         return self._pick(rows, kind.endswith("max"))
+
+    def governing_labels(self, kind: StationKind) -> tuple[str, ...]:
+        """Label of the arrangement giving ``kind`` at every station, in station order: the
+        same as ``governing(kind, i).label`` for each i, computed for all stations at once."""
+        quantity = {"m_max": 0, "m_min": 0, "v_max": 1, "v_min": 1}
+        if kind not in quantity:
+            raise ValueError(f"kind must be one of {sorted(quantity)}, got {kind!r}")
+        want_max = kind.endswith("max")
+        idx = np.arange(len(self.stations))
+        vals, parts = [], []
+        for p in self._parts:
+            v = p.basis.sol.moments_t(idx) if quantity[kind] == 0 else p.basis.sol.shears_t(idx)
+            hi, lo, i_hi, i_lo = p.basis.bounds(v)
+            vals.append(v)
+            parts.append((hi, lo, i_hi if want_max else i_lo))
+        extremes = np.array(
+            [hi.max(axis=1) if want_max else -lo.min(axis=1) for hi, lo, _ in parts]
+        )
+        best = extremes.max(axis=0)
+        tol = _LABEL_RTOL * (1.0 + np.abs(extremes).max(axis=0))
+        chosen = np.argmax(extremes >= best - tol, axis=0)  # first variant within the tie
+        labels: list[str] = []
+        cache: dict[tuple[int, int, tuple[int, ...]], str] = {}
+        for i in range(len(idx)):
+            k = int(chosen[i])
+            part, (hi, lo, i_set) = self._parts[k], parts[k]
+            basis = part.basis
+            e = int(np.argmax(hi[i]) if want_max else np.argmin(lo[i]))
+            if basis.pattern is PatternRule.ALL_AND_ALTERNATE:
+                loaded = basis.set_segments[int(i_set[i])]
+            else:
+                q = vals[k][i, 1:]
+                qtol = _LABEL_RTOL * float(np.abs(q).max()) if q.size else 0.0
+                pick = q > qtol if want_max else q < -qtol
+                loaded = tuple(int(s) for s in basis.q_segments[pick])
+            key = (k, e, loaded)
+            if key not in cache:
+                eq = basis.equations[e]
+                cache[key] = make_arrangement(self.model, eq.name, loaded, part.name).label
+            labels.append(cache[key])
+        return tuple(labels)
 
     def governing_at_node(self, kind: NodeKind, node: int) -> Arrangement:
         """The arrangement giving the node moment ("m_max"/"m_min") or reaction
@@ -442,21 +484,33 @@ def _check_variants(models: Sequence[tuple[str, BeamModel]]) -> None:
                 )
 
 
+def unit_cases(
+    permanent: Sequence[Load], variable: Sequence[Load]
+) -> tuple[list[list[Load]], list[str], np.ndarray]:
+    """The unit cases of the envelopes: (cases, their names, loaded segments): the
+    permanent loads, then the variable loads of each loaded segment alone (ascending)."""
+    by_segment: dict[int, list[Load]] = {}
+    for ld in variable:
+        by_segment.setdefault(int(ld.segment), []).append(ld)
+    q_segments = np.array(sorted(by_segment), dtype=np.intp)
+    cases: list[list[Load]] = [list(permanent)] + [by_segment[int(s)] for s in q_segments]
+    case_names = ["permanent"] + [f"variable on segment {int(s)}" for s in q_segments]
+    return cases, case_names, q_segments
+
+
 def _one_variant(
     name: str,
-    model: BeamModel,
-    cases: list[list[Load]],
-    case_names: list[str],
+    sol: NodeSolution,
     q_segments: np.ndarray,
     eqs: tuple[Equation, ...],
     pattern: PatternRule,
     delta: float,
     with_deflection: bool,
 ) -> tuple[_Variant, list[np.ndarray]]:
-    """Basis and envelopes of one variant: [m_max, m_min, v_max, v_min, d_max, d_min,
-    node m_max, node m_min, r_max, r_min] (max at even, min at odd positions; the
-    deflections are empty unless ``with_deflection``)."""
-    sol = solve_nodes(model, cases, case_names)
+    """Basis and envelopes of one variant from its solved unit cases: [m_max, m_min, v_max,
+    v_min, d_max, d_min, node m_max, node m_min, r_max, r_min] (max at even, min at odd
+    positions; the deflections are empty unless ``with_deflection``)."""
+    model = sol.model
     if delta != 1.0:
         sol = redistribute_solution(sol, delta)
     if pattern is PatternRule.ALL_AND_ALTERNATE:
@@ -504,6 +558,7 @@ def analyse_envelope_variants(
     combination: Combination,
     pattern: PatternRule,
     redistribution_delta: float = 1.0,
+    solved: Sequence[NodeSolution] | None = None,
 ) -> StripEnvelope:
     """Envelope over restraint variants of one beam under the same loads.
 
@@ -513,6 +568,10 @@ def analyse_envelope_variants(
     variants at every station and node, its ``model`` is the first variant's, and each
     governing ``Arrangement`` carries its variant's name (``Arrangement.variant``), which
     ``arrangement_values`` and ``arrangement_reactions`` use to pick the model.
+
+    ``solved`` optionally gives each variant's unit cases already solved (elastic, e.g. by
+    ``analysis.floor.solve_nodes_floor`` for many strips at once): the cases of
+    ``unit_cases(permanent, variable)`` on that variant's model; the result is the same.
     """
     _check_variants(models)
     delta = check_delta(redistribution_delta)
@@ -524,20 +583,18 @@ def analyse_envelope_variants(
     first = models[0][1]
     _check_assigned(first, permanent, "permanent")
     _check_assigned(first, variable, "variable")
-    by_segment: dict[int, list[Load]] = {}
-    for ld in variable:
-        by_segment.setdefault(int(ld.segment), []).append(ld)
-    q_segments = np.array(sorted(by_segment), dtype=np.intp)
-    cases: list[list[Load]] = [list(permanent)] + [by_segment[int(s)] for s in q_segments]
-    case_names = ["permanent"] + [f"variable on segment {int(s)}" for s in q_segments]
+    cases, case_names, q_segments = unit_cases(permanent, variable)
+    if solved is not None and len(solved) != len(models):
+        raise ValueError(f"{len(solved)} solved variants for {len(models)} models")
     with_deflection = combination in (Combination.CHARACTERISTIC, Combination.QUASI_PERMANENT)
 
     parts: list[_Variant] = []
     outs: list[np.ndarray] = []
-    for name, model in models:
-        part, arrays = _one_variant(
-            name, model, cases, case_names, q_segments, eqs, pattern, delta, with_deflection
-        )
+    for k, (name, model) in enumerate(models):
+        sol = solve_nodes(model, cases, case_names) if solved is None else solved[k]
+        if not (isinstance(sol, NodeSolution) and sol.model == model and sol.n_cases == len(cases)):
+            raise ValueError(f"solved[{k}] is not variant {name!r}'s model under the unit cases")
+        part, arrays = _one_variant(name, sol, q_segments, eqs, pattern, delta, with_deflection)
         if parts and not _same_stations(part.basis.sol.stations, parts[0].basis.sol.stations):
             raise ValueError(f"variant {name!r}: stations differ from variant {models[0][0]!r}")
         if not outs:

@@ -12,15 +12,29 @@ from the right, 0 where shear is continuous. A segment's first station is +1, it
 
 from __future__ import annotations
 
+import itertools
 import math
+import operator
 from collections.abc import Sequence
 from dataclasses import dataclass
+from operator import attrgetter
 
 import numpy as np
 
 from analysis.beam import BeamModel, Load, PointLoad, UniformLoad
 
-__all__ = ["FreeTerms", "LoadTable", "Stations", "build_stations", "free_terms", "load_table"]
+__all__ = [
+    "FreeTerms",
+    "LoadTable",
+    "Stations",
+    "build_stations",
+    "free_term_arrays",
+    "free_terms",
+    "full_line_loads",
+    "load_table",
+    "stacked_load_table",
+    "station_arrays",
+]
 
 # Positions closer than this (mm) are the same station.
 POSITION_TOL_MM = 1.0e-6
@@ -42,8 +56,11 @@ class Stations:
     start: np.ndarray  # (n_segments + 1,) int: stations of segment j are start[j]:start[j+1]
 
     def __post_init__(self) -> None:
-        for a in (self.x_mm, self.segment, self.local_mm, self.side, self.start):
-            a.setflags(write=False)
+        self.x_mm.setflags(write=False)
+        self.segment.setflags(write=False)
+        self.local_mm.setflags(write=False)
+        self.side.setflags(write=False)
+        self.start.setflags(write=False)
 
     def __len__(self) -> int:
         return int(self.x_mm.shape[0])
@@ -156,69 +173,215 @@ def load_table(
     )
 
 
+_LINE_FIELDS = ("w_kn_per_m", "start_mm", "end_mm")
+_POINT_FIELDS = ("p_kn", "a_mm")
+_NUMBER = {int, float}
+_NUMBER_OR_NONE = {int, float, type(None)}
+
+
+def stacked_load_table(
+    cases: Sequence[Sequence[Sequence[Load]]],
+    n_cases: tuple[int, ...],
+    n_cols: int,
+    n_seg: np.ndarray,
+    seg_off: np.ndarray,
+    length_mm: np.ndarray,
+) -> LoadTable | None:
+    """``load_table`` of many beams side by side (``analysis.floor``) for plain loads.
+
+    ``cases[k]`` are the cases of beam k, which has ``n_seg[k]`` segments, the first one
+    numbered ``seg_off[k]`` among all segments (of ``length_mm``); the table numbers the
+    segments over all beams and the cases within each beam (``n_cols`` columns). Every load
+    must be a ``UniformLoad`` or ``PointLoad`` of plain ints and floats, valid as
+    ``load_table`` checks it; otherwise the result is None (then ``load_table`` beam by beam
+    words the first bad load, or takes the unusual number types). The same positions are
+    snapped to the nodes as ``load_table`` snaps them.
+    """
+    chain = itertools.chain.from_iterable
+    try:
+        case_lists = list(chain(cases))  # every case of every strip
+        per_case = list(map(len, case_lists))
+        flat = list(chain(case_lists))
+    except TypeError:
+        return None
+    # The loads' own attributes, read by C-level iteration (no object per load).
+    kinds = list(map(type, flat))
+    if not set(kinds) <= {UniformLoad, PointLoad}:
+        return None
+    is_p = list(map(operator.is_, kinds, itertools.repeat(PointLoad)))
+    lines = list(itertools.compress(flat, map(operator.not_, is_p)))
+    points = list(itertools.compress(flat, is_p))
+    seg_l = list(map(attrgetter("segment"), flat))
+    q_w, lo_w, hi_w = (list(map(attrgetter(n), lines)) for n in _LINE_FIELDS)
+    q_p, a_p = (list(map(attrgetter(n), points)) for n in _POINT_FIELDS)
+    if not (
+        set(map(type, seg_l)) <= {int}
+        and set(map(type, q_w)) | set(map(type, q_p)) | set(map(type, a_p)) <= _NUMBER
+        and set(map(type, lo_w)) | set(map(type, hi_w)) <= _NUMBER_OR_NONE
+    ):
+        return None
+    n_loads = len(flat)
+    pt = np.fromiter(is_p, bool, n_loads)
+    w = ~pt
+    try:
+        seg = np.fromiter(seg_l, np.intp, n_loads)
+        q, lo, hi = np.empty(n_loads), np.empty(n_loads), np.empty(n_loads)
+        q[w], q[pt] = _floats(q_w), _floats(q_p)
+        lo[w], hi[w] = _floats(lo_w), _floats(hi_w)  # None -> nan
+        lo[pt] = hi[pt] = _floats(a_p)
+    except OverflowError:
+        return None
+    lo_nan, hi_nan = np.isnan(lo), np.isnan(hi)
+    if (lo_nan & pt).any() or int(lo_nan.sum() + hi_nan.sum()) != lo_w.count(None) + hi_w.count(
+        None
+    ):
+        return None  # a position that is nan (not None), or None on a point load
+    n_strip_cases = np.array(n_cases, dtype=np.intp)
+    case_strip = np.repeat(np.arange(n_strip_cases.size), n_strip_cases)
+    g_case = np.repeat(np.arange(case_strip.size), np.array(per_case, dtype=np.intp))
+    strip = case_strip[g_case]
+    case = g_case - (np.cumsum(n_strip_cases) - n_strip_cases)[strip]
+    if ((seg < 0) | (seg >= n_seg[strip])).any():
+        return None
+    g_seg = seg + seg_off[strip]
+    length = length_mm[g_seg]
+    tol = POSITION_TOL_MM
+    lo = np.where(lo_nan, 0.0, lo)
+    hi = np.where(hi_nan, length, hi)
+    with np.errstate(invalid="ignore"):
+        ok_pt = np.isfinite(lo) & (lo >= -tol) & (lo <= length + tol)
+        ok_w = (
+            np.isfinite(lo)
+            & np.isfinite(hi)
+            & (lo >= -tol)
+            & (hi <= length + tol)
+            & (hi - lo > tol)
+        )
+    if not (np.isfinite(q).all() and np.where(pt, ok_pt, ok_w).all()):
+        return None
+    # Snap to the nodes within the tolerance, as ``load_table`` does.
+    lo = np.where(lo <= tol, 0.0, np.where(pt & (lo >= length - tol), length, lo))
+    hi = np.where(pt, lo, np.where(hi >= length - tol, length, hi))
+    return LoadTable(
+        n_cases=n_cols,
+        case=case,
+        segment=g_seg,
+        is_point=pt,
+        intensity=q,
+        start_m=lo / 1000.0,
+        end_m=hi / 1000.0,
+    )
+
+
+def _floats(values: list) -> np.ndarray:
+    """float array of numbers and None (nan); all None is the common case."""
+    if values.count(None) == len(values):
+        return np.full(len(values), np.nan)
+    return np.array(values, dtype=float)
+
+
+def _floats(values: list) -> np.ndarray:
+    """float array of numbers and None (nan); all None is the common case."""
+    if values.count(None) == len(values):
+        return np.full(len(values), np.nan)
+    return np.array(values, dtype=float)
+
+
 def build_stations(model: BeamModel, table: LoadTable) -> Stations:
     """Stations: a uniform grid at most L * model.station_spacing_fraction apart in every
     segment, plus support faces, load points and the ends of partial line loads."""
     frac = model.station_spacing_fraction
     if not (0.0 < frac <= 1.0):
         raise ValueError(f"station_spacing_fraction must be in (0, 1], got {frac}")
-    n_seg = model.n_segments
     nodes = np.asarray(model.node_x_mm, dtype=float)
-    lengths = np.diff(nodes)
-    n_div = max(1, math.ceil(1.0 / frac - 1e-9))
-    grid = lengths[:, None] * (np.arange(n_div + 1) / n_div)[None, :]  # (n_seg, n_div+1)
-    seg_parts = [np.repeat(np.arange(n_seg), n_div + 1)]
-    pos_parts = [grid.ravel()]
-    pt_parts = [np.zeros(grid.size, dtype=bool)]
-    # Support faces that fall inside a segment.
     half = np.asarray(model.support_width_mm, dtype=float) / 2.0
-    left_face = (half[1:] > POSITION_TOL_MM) & (half[1:] < lengths - POSITION_TOL_MM)
-    right_face = (half[:-1] > POSITION_TOL_MM) & (half[:-1] < lengths - POSITION_TOL_MM)
-    seg_idx = np.arange(n_seg)
-    seg_parts += [seg_idx[left_face], seg_idx[right_face]]
-    pos_parts += [(lengths - half[1:])[left_face], half[:-1][right_face]]
-    pt_parts += [np.zeros(int(left_face.sum()), bool), np.zeros(int(right_face.sum()), bool)]
-    # Load points and line-load ends.
-    seg_parts += [table.segment, table.segment]
-    pos_parts += [table.start_m * 1000.0, table.end_m * 1000.0]
-    pt_parts += [table.is_point, np.zeros(table.is_point.size, dtype=bool)]
+    n_div = np.full(model.n_segments, max(1, math.ceil(1.0 / frac - 1e-9)))
+    seg, local, side, start = station_arrays(np.diff(nodes), n_div, half[:-1], half[1:], table)
+    return Stations(x_mm=nodes[seg] + local, segment=seg, local_mm=local, side=side, start=start)
 
-    seg = np.concatenate(seg_parts)
-    pos = np.concatenate(pos_parts)
-    is_pt = np.concatenate(pt_parts)
-    key = np.round(pos / POSITION_TOL_MM)
-    order = np.lexsort((~is_pt, key, seg))  # point-load entries first within a group
-    seg, pos, is_pt, key = seg[order], pos[order], is_pt[order], key[order]
-    first = np.ones(seg.size, dtype=bool)
-    first[1:] = (seg[1:] != seg[:-1]) | (key[1:] != key[:-1])
-    grp = np.cumsum(first) - 1
-    useg, upos = seg[first], pos[first]
-    upt = np.zeros(useg.size, dtype=bool)
-    np.logical_or.at(upt, grp, is_pt)
-    ulen = lengths[useg]
-    at_start = upos <= POSITION_TOL_MM
-    at_end = upos >= ulen - POSITION_TOL_MM
-    upos = np.where(at_start, 0.0, np.where(at_end, ulen, upos))
-    double = upt & ~at_start & ~at_end
-    reps = 1 + double.astype(np.intp)
-    st_seg = np.repeat(useg, reps)
-    st_pos = np.repeat(upos, reps)
-    side = np.zeros(st_seg.size, dtype=np.int8)
-    second = np.zeros(st_seg.size, dtype=bool)
-    ends = np.cumsum(reps)
-    second[ends[double] - 1] = True
-    side[ends[double] - 2] = -1
-    side[second] = 1
-    side[np.repeat(at_start, reps)] = 1
-    side[np.repeat(at_end, reps)] = -1
-    start = np.searchsorted(st_seg, np.arange(n_seg + 1)).astype(np.intp)
-    return Stations(
-        x_mm=nodes[st_seg] + st_pos,
-        segment=st_seg.astype(np.intp),
-        local_mm=st_pos,
-        side=side,
-        start=start,
+
+def station_arrays(
+    lengths_mm: np.ndarray,
+    n_div: np.ndarray,
+    half_l: np.ndarray,
+    half_r: np.ndarray,
+    table: LoadTable,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """(segment, local_mm, side, start) of the stations of segments side by side (those of
+    one beam, or of many beams stacked: ``analysis.floor``).
+
+    Segment j has length ``lengths_mm[j]``, ``n_div[j]`` grid divisions and supports of half
+    width ``half_l[j]`` / ``half_r[j]`` at its left / right node; ``table.segment`` indexes
+    these segments. ``start`` has one entry per segment plus one.
+    """
+    n_seg = lengths_mm.size
+    tol = POSITION_TOL_MM
+    counts = n_div + 1
+    first = np.cumsum(counts) - counts
+    g_seg = np.repeat(np.arange(n_seg), counts)
+    step = np.arange(g_seg.size) - np.repeat(first, counts)
+    g_pos = np.repeat(lengths_mm, counts) * (step / np.repeat(n_div, counts))
+    # The other positions, in this order: support faces that fall inside a segment, load
+    # points, and the ends of line loads not at the ends of their segment (those coincide
+    # with grid points and change nothing).
+    left_face = (half_r > tol) & (half_r < lengths_mm - tol)
+    right_face = (half_l > tol) & (half_l < lengths_mm - tol)
+    seg_idx = np.arange(n_seg)
+    lo_mm, hi_mm = table.start_m * 1000.0, table.end_m * 1000.0
+    # Positions are integers of the tolerance; those of segment j are offset by the keys
+    # of the segments before it, so that one integer orders (segment, position).
+    key_l = np.round(lengths_mm / tol)
+    key_off = np.zeros(n_seg + 1, dtype=np.int64)
+    np.cumsum(key_l.astype(np.int64) + 2, out=key_off[1:])
+    end_key = key_off[table.segment] + key_l[table.segment].astype(np.int64)
+    hi_key = key_off[table.segment] + np.round(hi_mm / tol).astype(np.int64)
+    lo_in = table.is_point | (lo_mm != 0.0)
+    hi_in = ~table.is_point & (hi_key != end_key)
+    e_seg = np.concatenate(
+        [seg_idx[left_face], seg_idx[right_face], table.segment[lo_in], table.segment[hi_in]]
     )
+    e_pos = np.concatenate(
+        [(lengths_mm - half_r)[left_face], half_l[right_face], lo_mm[lo_in], hi_mm[hi_in]]
+    )
+    e_pt = np.zeros(e_seg.size, dtype=bool)
+    n_faces = int(left_face.sum() + right_face.sum())
+    e_pt[n_faces : n_faces + int(lo_in.sum())] = table.is_point[lo_in]
+    g_key = key_off[g_seg] + np.round(g_pos / tol).astype(np.int64)
+    e_key = key_off[e_seg] + np.round(e_pos / tol).astype(np.int64)
+    # Groups of equal (segment, key) are one station; its position is that of the group's
+    # first entry, point loads first, then in the order above (the grid first of all).
+    keep = np.ones(g_key.size, dtype=bool)
+    keep[1:] = g_key[1:] != g_key[:-1]
+    useg, upos, ukey = g_seg[keep], g_pos[keep], g_key[keep]
+    upt = np.zeros(useg.size, dtype=bool)
+    order = np.argsort(e_key * 2 + ~e_pt, kind="stable")
+    e_key, e_seg, e_pos, e_pt = e_key[order], e_seg[order], e_pos[order], e_pt[order]
+    e_first = np.ones(e_key.size, dtype=bool)
+    e_first[1:] = e_key[1:] != e_key[:-1]
+    e_key, e_seg, e_pos, e_pt = e_key[e_first], e_seg[e_first], e_pos[e_first], e_pt[e_first]
+    at = np.searchsorted(ukey, e_key)
+    on_grid = ukey[np.minimum(at, ukey.size - 1)] == e_key
+    hit = at[on_grid & e_pt]  # a point load on a grid point: its position, and doubled
+    upos[hit] = e_pos[on_grid & e_pt]
+    upt[hit] = True
+    new = ~on_grid
+    useg = np.insert(useg, at[new], e_seg[new])
+    upos = np.insert(upos, at[new], e_pos[new])
+    upt = np.insert(upt, at[new], e_pt[new])
+    ulen = lengths_mm[useg]
+    at_start = upos <= tol
+    at_end = upos >= ulen - tol
+    upos[at_end] = ulen[at_end]
+    upos[at_start] = 0.0
+    side_u = np.where(at_end, -1, at_start).astype(np.int8)
+    # A point load inside a segment doubles its station: the limits from left and right.
+    double = np.flatnonzero(upt & ~at_start & ~at_end)
+    side_u[double] = -1
+    st_seg = np.insert(useg, double + 1, useg[double])
+    st_pos = np.insert(upos, double + 1, upos[double])
+    side = np.insert(side_u, double + 1, 1)
+    start = np.searchsorted(st_seg, np.arange(n_seg + 1)).astype(np.intp)
+    return st_seg.astype(np.intp), st_pos, side, start
 
 
 @dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
@@ -239,13 +402,74 @@ class FreeTerms:
 
 def free_terms(model: BeamModel, stations: Stations, table: LoadTable) -> FreeTerms:
     """Simple-beam statics of every load at the stations of its segment (vectorised)."""
-    counts = np.diff(stations.start)[table.segment]
-    n_e = int(counts.sum())
-    load = np.repeat(np.arange(table.segment.size), counts)
-    offs = np.arange(n_e) - np.repeat(np.cumsum(counts) - counts, counts)
-    st = stations.start[table.segment][load] + offs
-    length = (np.diff(np.asarray(model.node_x_mm, dtype=float)) / 1000.0)[table.segment][load]
-    x = stations.local_mm[st] / 1000.0
+    length_m = np.diff(np.asarray(model.node_x_mm, dtype=float)) / 1000.0
+    case, st, m0, v0, j0 = free_term_arrays(
+        stations.start, stations.local_mm, stations.side, length_m, table
+    )
+    return FreeTerms(
+        case=_frozen(case), station=_frozen(st), m0=_frozen(m0), v0=_frozen(v0), j0=_frozen(j0)
+    )
+
+
+def free_term_arrays(
+    start: np.ndarray,
+    local_mm: np.ndarray,
+    side: np.ndarray,
+    length_m: np.ndarray,
+    table: LoadTable,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """(case, station, m0, v0, j0) of ``FreeTerms``, ordered by station (then load), for
+    the stations (``start``, ``local_mm``, ``side`` as in ``Stations``) of segments of
+    ``length_m`` side by side; ``table.segment`` indexes these segments."""
+    seg_of_load = table.segment
+    # Entries station by station, each station's in table order: a station of segment j
+    # holds one entry per load on j. Only segments with loads are visited.
+    n_loads = np.bincount(seg_of_load, minlength=length_m.size)
+    segs = np.flatnonzero(n_loads)
+    n_st = start[segs + 1] - start[segs]
+    n_loads_s = n_loads[segs]
+    first_st = np.cumsum(n_st) - n_st
+    stations = np.repeat(start[segs] - first_st, n_st) + np.arange(int(n_st.sum()))
+    reps = np.repeat(n_loads_s, n_st)  # entries per visited station
+    first_load = np.cumsum(n_loads_s) - n_loads_s  # of each segment, loads sorted by segment
+    base = np.repeat(first_load, n_st) - (np.cumsum(reps) - reps)
+    by_segment = np.argsort(seg_of_load, kind="stable")
+    load = by_segment[np.repeat(base, reps) + np.arange(int(reps.sum()))]
+    st = np.repeat(stations, reps)
+    # A line load over the whole segment (the common case): w times the unit-load statics
+    # of the station, M0 = x (L - x) / 2, V0 = L / 2 - x, J0 = x^3 (2 L - x) / 24.
+    x_s = local_mm[stations] / 1000.0
+    l_s = np.repeat(length_m[segs], n_st)
+    q = table.intensity[load]
+    m0 = q * np.repeat(0.5 * x_s * (l_s - x_s), reps)
+    v0 = q * np.repeat(0.5 * l_s - x_s, reps)
+    j0 = q * np.repeat(x_s**3 * (2.0 * l_s - x_s) / 24.0, reps)
+    other = np.flatnonzero(~full_line_loads(table, length_m)[load])
+    if other.size:
+        m0[other], v0[other], j0[other] = _general_free_terms(
+            table,
+            load[other],
+            np.repeat(x_s, reps)[other],
+            np.repeat(l_s, reps)[other],
+            side[st[other]],
+        )
+    return table.case[load], st, m0, v0, j0
+
+
+def full_line_loads(table: LoadTable, length_m: np.ndarray) -> np.ndarray:
+    """(n_loads,) bool: line loads over the whole of their segment (``length_m`` each)."""
+    return ~table.is_point & (table.start_m == 0.0) & (table.end_m == length_m[table.segment])
+
+
+def _general_free_terms(
+    table: LoadTable,
+    load: np.ndarray,
+    x: np.ndarray,
+    length: np.ndarray,
+    side: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(m0, v0, j0) of point loads and partial line loads at entries at x (m) with the
+    segment ``length`` (m) and the station's ``side``."""
     q = table.intensity[load]
     c = table.start_m[load]
     d = table.end_m[load]
@@ -258,18 +482,11 @@ def free_terms(model: BeamModel, stations: Stations, table: LoadTable) -> FreeTe
     xd = np.maximum(x - d, 0.0)
     # Point load: is the load left of the section? Ties (station at the load) use the side.
     tie = np.abs(x - c) * 1000.0 <= POSITION_TOL_MM
-    left_of = (x > c) & ~tie | tie & (stations.side[st] == 1)
+    left_of = (x > c) & ~tie | tie & (side == 1)
     m0 = np.where(pt, r_a * x - q * xc, r_a * x - 0.5 * q * (xc**2 - xd**2))
     m0[x >= length] = 0.0  # zero at the right node by statics; drop the round-off
     v0 = np.where(pt, r_a - q * left_of, r_a - q * (np.clip(x, c, d) - c))
     j0 = np.where(
         pt, r_a * x**3 / 6.0 - q * xc**3 / 6.0, r_a * x**3 / 6.0 - q * (xc**4 - xd**4) / 24.0
     )
-    order = np.argsort(st, kind="stable")
-    return FreeTerms(
-        case=_frozen(table.case[load][order]),
-        station=_frozen(st[order]),
-        m0=_frozen(m0[order]),
-        v0=_frozen(v0[order]),
-        j0=_frozen(j0[order]),
-    )
+    return m0, v0, j0

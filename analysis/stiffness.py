@@ -25,6 +25,7 @@ from analysis.stations import (
     Stations,
     build_stations,
     free_terms,
+    full_line_loads,
     load_table,
 )
 
@@ -56,16 +57,13 @@ class CaseResults:
     node_rotation_rad: np.ndarray  # (n_cases, n_nodes)
 
     def __post_init__(self) -> None:
-        for name in (
-            "m_knm",
-            "v_kn",
-            "deflection_mm",
-            "reactions_kn",
-            "node_moment_knm",
-            "node_deflection_mm",
-            "node_rotation_rad",
-        ):
-            getattr(self, name).setflags(write=False)
+        self.m_knm.setflags(write=False)
+        self.v_kn.setflags(write=False)
+        self.deflection_mm.setflags(write=False)
+        self.reactions_kn.setflags(write=False)
+        self.node_moment_knm.setflags(write=False)
+        self.node_deflection_mm.setflags(write=False)
+        self.node_rotation_rad.setflags(write=False)
 
     @property
     def x_mm(self) -> np.ndarray:
@@ -189,8 +187,9 @@ class NodeSolution:
         return self.moments_t(idx).T, self.shears_t(idx).T, self.deflections_t(idx).T
 
 
-def _element_matrices(length_m: np.ndarray, ei: float) -> np.ndarray:
-    """(n_el, 4, 4) Euler-Bernoulli beam element stiffness, DOFs (v1, th1, v2, th2)."""
+def element_matrices(length_m: np.ndarray, ei: float | np.ndarray) -> np.ndarray:
+    """(n_el, 4, 4) Euler-Bernoulli beam element stiffness, DOFs (v1, th1, v2, th2); ``ei``
+    one number or one per element."""
     length = length_m[:, None, None]
     base = np.array(
         [
@@ -202,6 +201,7 @@ def _element_matrices(length_m: np.ndarray, ei: float) -> np.ndarray:
     )
     # Powers of L for each entry: v-v 0, v-th 1, th-th 2.
     power = np.array([[0, 1, 0, 1], [1, 2, 1, 2], [0, 1, 0, 1], [1, 2, 1, 2]])
+    ei = np.reshape(np.asarray(ei, dtype=float), (-1, 1, 1))
     return ei * base[None] * length ** power[None] / length**3
 
 
@@ -212,9 +212,29 @@ def _fixed_end_actions(table: LoadTable, length_by_seg: np.ndarray) -> np.ndarra
     fixed-end moment tables: w L^2 / 12 and P a b^2 / L^2 for the usual cases).
     """
     length = length_by_seg[table.segment]
-    q = table.intensity
-    c, d = table.start_m, table.end_m
-    pt = table.is_point
+    # A line load over the whole element (the common case): reactions w L / 2 up and
+    # hogging moments w L^2 / 12 at both ends.
+    r = 0.5 * table.intensity * length
+    m = r * length / 6.0
+    # Node on element, DOF directions (v down, theta = dv/dx): the upward reactions are
+    # negative; the left hogging moment acts against +theta, the right one along it.
+    out = np.stack([-r, -m, -r, m], axis=1)
+    other = np.flatnonzero(~full_line_loads(table, length_by_seg))
+    if other.size:
+        out[other] = _general_fixed_end_actions(
+            table.intensity[other],
+            table.start_m[other],
+            table.end_m[other],
+            table.is_point[other],
+            length[other],
+        )
+    return out
+
+
+def _general_fixed_end_actions(
+    q: np.ndarray, c: np.ndarray, d: np.ndarray, pt: np.ndarray, length: np.ndarray
+) -> np.ndarray:
+    """``_fixed_end_actions`` of point loads (at c) and partial line loads (c..d)."""
     a = c
     b = length - a
     # Point load P at a: reactions up P b^2 (L + 2a) / L^3 and P a^2 (3L - 2a) / L^3,
@@ -242,9 +262,114 @@ def _fixed_end_actions(table: LoadTable, length_by_seg: np.ndarray) -> np.ndarra
     r2 = np.where(pt, r2_p, r2_w)
     m1 = np.where(pt, m1_p, m1_w)
     m2 = np.where(pt, m2_p, m2_w)
-    # Node on element, DOF directions (v down, theta = dv/dx): the upward reactions are
-    # negative; the left hogging moment acts against +theta, the right one along it.
     return np.stack([-r1, -m1, -r2, m2], axis=1)
+
+
+# Codes by member identity (enum members are singletons; hashing an enum member is slow).
+# Anything else counts as pinned: it is not FREE (v is held) and not FIXED (theta is free).
+_CODE = {id(Restraint.FREE): 0, id(Restraint.PINNED): 1, id(Restraint.FIXED): 2}
+
+
+def restraint_codes(restraints: Sequence[Restraint]) -> np.ndarray:
+    """(n,) int8 codes of ``Frame.restraint``: 0 free, 1 pinned, 2 fixed."""
+    code = _CODE.get
+    return np.fromiter([code(id(r), 1) for r in restraints], np.int8, len(restraints))
+
+
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
+class Frame:
+    """Connectivity of one beam, or of many beams side by side (``analysis.floor``): element
+    e joins nodes ``left[e]`` and ``left[e] + 1``; node i has DOFs 2i (v) and 2i + 1 (theta)."""
+
+    length_m: np.ndarray  # (n_el,)
+    left: np.ndarray  # (n_el,) int
+    restraint: np.ndarray  # (n_nodes,) int8: 0 free, 1 pinned, 2 fixed
+    end: np.ndarray  # (n_nodes,) bool: first or last node of its beam
+
+    @classmethod
+    def of(cls, model: BeamModel) -> Frame:
+        n = len(model.node_x_mm)
+        end = np.zeros(n, dtype=bool)
+        end[[0, -1]] = True
+        return cls(
+            length_m=np.diff(np.asarray(model.node_x_mm, dtype=float)) / 1000.0,
+            left=np.arange(n - 1),
+            restraint=restraint_codes(model.restraints),
+            end=end,
+        )
+
+    @property
+    def n_nodes(self) -> int:
+        return int(self.restraint.size)
+
+    def free_dofs(self) -> np.ndarray:
+        """(2 n_nodes,) bool: a support removes v, a FIXED end also theta."""
+        free = np.ones((self.n_nodes, 2), dtype=bool)
+        free[:, 0] = self.restraint == 0
+        free[:, 1] = self.restraint != 2
+        return free.ravel()
+
+    def dofs(self) -> np.ndarray:
+        """(n_el, 4) DOFs of every element: (v1, th1, v2, th2)."""
+        return 2 * self.left[:, None] + np.arange(4)[None, :]
+
+
+# The lower triangle of an element matrix, local (row, column): the DOFs of an element
+# rise with the local index, so row >= column is the lower band of the reduced matrix too.
+_LOW_R, _LOW_C = np.tril_indices(4)
+
+
+def band_entries(
+    ke: np.ndarray, frame: Frame, free: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Entries of the reduced stiffness in lower band storage: (row - column, column,
+    value), element by element (summed by the caller); columns number the free DOFs in
+    order."""
+    dofs = frame.dofs()
+    red = (np.cumsum(free) - 1)[dofs]
+    is_free = free[dofs]
+    keep = is_free[:, _LOW_R] & is_free[:, _LOW_C]
+    col = red[:, _LOW_C]
+    return (red[:, _LOW_R] - col)[keep], col[keep], ke[:, _LOW_R, _LOW_C][keep]
+
+
+def load_vectors(frame: Frame, table: LoadTable) -> tuple[np.ndarray, np.ndarray]:
+    """Fixed-end actions per element (n_el, 4, n_cases) and the equivalent nodal loads
+    (2 n_nodes, n_cases), which are minus the fixed-end actions; ``table.segment`` indexes
+    the elements."""
+    n_el, n_cases = frame.left.size, table.n_cases
+    fea = _fixed_end_actions(table, frame.length_m)  # (n_loads, 4)
+    # Summed per (element, action, case) in table order.
+    flat = (table.segment[:, None] * 4 + np.arange(4)) * n_cases + table.case[:, None]
+    fe_el = np.bincount(flat.ravel(), fea.ravel(), n_el * 4 * n_cases).reshape(n_el, 4, n_cases)
+    f_full = np.zeros((frame.n_nodes, 2, n_cases))
+    f_full[frame.left] -= fe_el[:, :2]
+    f_full[frame.left + 1] -= fe_el[:, 2:]
+    return fe_el, f_full.reshape(2 * frame.n_nodes, n_cases)
+
+
+def node_results(
+    frame: Frame, ke: np.ndarray, d_full: np.ndarray, fe_el: np.ndarray
+) -> tuple[np.ndarray, np.ndarray]:
+    """Node moments and reactions, each (n_nodes, n_cases), from the DOF values
+    (2 n_nodes, n_cases) and the fixed-end actions."""
+    # Element end actions f = k d + fixed-end actions.
+    f_el = np.matmul(ke, d_full[frame.dofs()]) + fe_el
+    left, right = frame.left, frame.left + 1
+    # M(0) is the action along +theta at the left node, M(L) minus that at the right node;
+    # a node between two elements takes the mean of the two.
+    node_m = np.zeros((frame.n_nodes, fe_el.shape[2]))
+    node_m[left] = f_el[:, 1, :]
+    node_m[right] -= f_el[:, 3, :]
+    node_m[~frame.end] *= 0.5
+    node_m[frame.end & (frame.restraint != 2)] = 0.0  # pinned or free end: zero by statics
+    # Reactions: the nodes push the elements with f; the supports push the nodes.
+    down = np.zeros_like(node_m)
+    down[left] += f_el[:, 0, :]
+    down[right] += f_el[:, 2, :]
+    reactions = -down
+    reactions[frame.restraint == 0] = 0.0
+    return node_m, reactions
 
 
 def _check_model(model: BeamModel) -> None:
@@ -268,83 +393,32 @@ def solve_nodes(
 
 
 def _solve_table(model: BeamModel, table: LoadTable, stations: Stations) -> NodeSolution:
-    n_nodes = len(model.node_x_mm)
-    n_el = n_nodes - 1
-    n_cases = table.n_cases
-    length = np.diff(np.asarray(model.node_x_mm, dtype=float)) / 1000.0
-    ke = _element_matrices(length, model.ei_knm2)
-    # Restraints.
-    free = np.ones(2 * n_nodes, dtype=bool)
-    for i, r in enumerate(model.restraints):
-        if r is not Restraint.FREE:
-            free[2 * i] = False
-        if r is Restraint.FIXED:
-            free[2 * i + 1] = False
-    red = np.cumsum(free) - 1
+    frame = Frame.of(model)
+    ke = element_matrices(frame.length_m, model.ei_knm2)
+    free = frame.free_dofs()
+    band_k, band_c, band_v = band_entries(ke, frame, free)
     n_free = int(free.sum())
-    # Assemble the reduced stiffness in lower band storage.
-    dofs = 2 * np.arange(n_el)[:, None] + np.arange(4)[None, :]  # (n_el, 4)
-    rows = np.broadcast_to(dofs[:, :, None], (n_el, 4, 4))
-    cols = np.broadcast_to(dofs[:, None, :], (n_el, 4, 4))
-    keep = free[rows] & free[cols] & (red[rows] >= red[cols])
-    r_red, c_red = red[rows][keep], red[cols][keep]
-    band = int((r_red - c_red).max()) if r_red.size else 0
-    ab = np.zeros((band + 1, n_free))
-    np.add.at(ab, (r_red - c_red, c_red), ke[keep])
-    # Load vectors: equivalent nodal loads are minus the fixed-end actions.
-    fea = _fixed_end_actions(table, length)  # (n_loads, 4)
-    fe_el = np.zeros((n_el, 4, n_cases))
-    np.add.at(
-        fe_el,
-        (
-            np.repeat(table.segment, 4),
-            np.tile(np.arange(4), table.segment.size),
-            np.repeat(table.case, 4),
-        ),
-        fea.ravel(),
-    )
-    f_full = np.zeros((n_nodes, 2, n_cases))
-    f_full[:-1] -= fe_el[:, :2]
-    f_full[1:] -= fe_el[:, 2:]
-    f_full = f_full.reshape(2 * n_nodes, n_cases)
-    d_full = np.zeros((2 * n_nodes, n_cases))
+    ab = np.zeros((int(band_k.max()) + 1 if band_k.size else 1, n_free))
+    np.add.at(ab, (band_k, band_c), band_v)
+    fe_el, f_full = load_vectors(frame, table)
+    d_full = np.zeros_like(f_full)
     if n_free:
         try:
             factor = cholesky_banded(ab)
         except NotPositiveDefiniteError:
             raise ValueError("the beam model is a mechanism (not enough supports)") from None
         d_full[free] = factor.solve(f_full[free])
-    # Element end actions f = k d + fixed-end actions.
-    d_el = d_full[dofs]  # (n_el, 4, n_cases)
-    f_el = np.matmul(ke, d_el) + fe_el
-    m_start = f_el[:, 1, :].T  # M(0) = action along +theta at the left node
-    m_end = -f_el[:, 3, :].T  # M(L) = minus the action along +theta at the right node
-    node_m = np.empty((n_cases, n_nodes))
-    node_m[:, 0] = m_start[:, 0]
-    node_m[:, -1] = m_end[:, -1]
-    node_m[:, 1:-1] = 0.5 * (m_end[:, :-1] + m_start[:, 1:])
-    for i in (0, n_nodes - 1):
-        if model.restraints[i] is not Restraint.FIXED:
-            node_m[:, i] = 0.0  # pinned or free end: zero by statics, remove round-off
-    # Reactions: the nodes push the elements with f; the supports push the nodes.
-    down = np.zeros((n_nodes, n_cases))
-    down[:-1] += f_el[:, 0, :]
-    down[1:] += f_el[:, 2, :]
-    reactions = -down.T
-    for i, r in enumerate(model.restraints):
-        if r is Restraint.FREE:
-            reactions[:, i] = 0.0
-    v_nodes = d_full[0::2].T
-    th_nodes = d_full[1::2].T
+    node_m, reactions = node_results(frame, ke, d_full, fe_el)
+    node_m = _frozen(np.ascontiguousarray(node_m.T))
     return NodeSolution(
         model=model,
         stations=stations,
         free=free_terms(model, stations, table),
-        node_moment_knm=_frozen(node_m),
-        elastic_node_moment_knm=_frozen(node_m),
-        reactions_kn=_frozen(np.ascontiguousarray(reactions)),
-        node_v_m=_frozen(np.ascontiguousarray(v_nodes)),
-        node_theta_rad=_frozen(np.ascontiguousarray(th_nodes)),
+        node_moment_knm=node_m,
+        elastic_node_moment_knm=node_m,
+        reactions_kn=_frozen(np.ascontiguousarray(reactions.T)),
+        node_v_m=_frozen(np.ascontiguousarray(d_full[0::2].T)),
+        node_theta_rad=_frozen(np.ascontiguousarray(d_full[1::2].T)),
     )
 
 

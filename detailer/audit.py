@@ -41,7 +41,13 @@ from pathlib import Path
 
 from detailer.errors import InputError
 from detailer.io.csv_writer import COLUMNS
-from detailer.io.dxf_readback import DrawnBar, LayoutReadback, parse_tag, read_layout
+from detailer.io.dxf_readback import (
+    DrawnBar,
+    LayoutReadback,
+    merge_readbacks,
+    parse_tag,
+    read_layout,
+)
 from detailer.marks import mark_number
 
 #: Lengths agree within this, mm (both sides are whole millimetres).
@@ -458,18 +464,25 @@ def _compare(member: str, side: _Side, row: ScheduleLine) -> list[AuditFinding]:
 # Files
 
 
-def run_audit(dxf_path: str | Path, csv_path: str | Path) -> AuditReport:
-    """Read the drawing and the schedule CSV and audit one against the other.
+def run_audit(dxf_path: str | Path | Sequence[str | Path], csv_path: str | Path) -> AuditReport:
+    """Read the drawing (one file, or every file of a drawing split into several) and the
+    schedule CSV and audit one against the other.
 
     Raises a one-line ``InputError`` for a file that cannot be read (missing, not a DXF, not
     the schedule CSV, a drawing without slabwright's bar data).
     """
-    drawing = read_layout(Path(dxf_path))
-    if not drawing.bars:
-        raise InputError(
-            f"{dxf_path}: the drawing holds no slabwright bar data (XDATA 'SLABWRIGHT'); "
-            "audit a layout drawing written by slabwright"
-        )
+    paths = [dxf_path] if isinstance(dxf_path, (str, Path)) else list(dxf_path)
+    parts = []
+    for one in paths:
+        part = read_layout(Path(one))
+        if not part.bars:
+            raise InputError(
+                f"{one}: the drawing holds no slabwright bar data (XDATA 'SLABWRIGHT'); "
+                "audit a layout drawing written by slabwright"
+            )
+        parts.append(part)
+    drawing = parts[0] if len(parts) == 1 else merge_readbacks(parts)
+    dxf_path = " + ".join(str(p) for p in paths)
     path = Path(csv_path)
     try:
         text = path.read_text(encoding="utf-8-sig")

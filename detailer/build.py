@@ -13,14 +13,22 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from detailer.codes.base import DesignCode
+from detailer.drawing_set import start_drawing
 from detailer.errors import DesignError
 from detailer.io.csv_writer import render_schedule_csv
 from detailer.io.history import PreviousIssue, find_previous, read_previous, write_issue
-from detailer.io.json_writer import previous_marks, record_file_name, render_record_json
+from detailer.io.json_writer import format_json, previous_marks, record_file_name
 from detailer.layout import ProjectDetail, StripDetail
 from detailer.marks import BarIdentity, assign_marks, mark_table, withdrawn_marks
 from detailer.model import Project
+from detailer.parallel import map_indexed, worker_count
 from detailer.pipeline import default_code, detail_strip
+from detailer.preview_workers import (
+    PreviewWorkers,
+    start_preview_workers,
+    wants_previews,
+)
+from detailer.progress import SILENT, Progress
 from detailer.project import load_project
 from detailer.record import ProjectRecord, RevisionRecord, build_record, record_to_jsonable
 from detailer.revisions import (
@@ -39,12 +47,25 @@ DEFAULT_OUTPUT_ROOT = Path("output")
 
 
 class BuildFailed(DesignError):
-    """One or more strips cannot be designed; ``failures`` holds (strip id, reason) pairs."""
+    """No strip can be designed; ``failures`` holds (strip id, reason) pairs."""
 
     def __init__(self, failures: tuple[tuple[str, str], ...]) -> None:
         self.failures = failures
         names = ", ".join(f for f, _ in failures)
         super().__init__(f"{len(failures)} strip(s) cannot be designed as given: {names}")
+
+
+@dataclass(frozen=True, slots=True)
+class BuildOptions:
+    """How a build runs (never what it produces, except ``previews``)."""
+
+    workers: int | None = None  # worker processes; None: one per CPU for more than a handful
+    previews: bool | None = None  # PNG previews; None: up to PREVIEW_MAX_STRIPS strips
+    progress: Progress = SILENT
+    preview_workers: PreviewWorkers | None = None  # started early by the caller (the CLI)
+
+    def wants_previews(self, n_strips: int) -> bool:
+        return wants_previews(n_strips, self.previews)
 
 
 @dataclass(frozen=True, slots=True)
@@ -58,6 +79,8 @@ class BuildResult:
     unchanged: bool = False  # same as the previous record: nothing to write
     description: str = ""  # one line: what changed at this revision
     archive_dir: Path | None = None  # where the previous issue's files were kept
+    not_detailed: tuple[tuple[str, str], ...] = ()  # (strip id, reason): left out, no files
+    previews_skipped: bool = False  # previews not rendered (many strips, or asked not to)
 
 
 @dataclass(frozen=True, slots=True)
@@ -72,6 +95,56 @@ class Issue:
     description: str
     changes: str  # Markdown change report; "" for a first issue
     diff: RevisionDiff | None = None  # the changes as data (None: first issue or unchanged)
+    not_detailed: tuple[tuple[str, str], ...] = ()  # (strip id, reason) of strips left out
+
+
+def _detail_task(context: tuple[Project, DesignCode], index: int) -> StripDetail | tuple[str, str]:
+    project, code = context
+    strip = project.strips[index]
+    try:
+        return detail_strip(project, strip, code)
+    except DesignError as exc:
+        return (strip.id, str(exc))
+
+
+def detail_strips(
+    project: Project,
+    code: DesignCode | None = None,
+    *,
+    workers: int = 0,
+    progress: Progress = SILENT,
+) -> tuple[tuple[StripDetail, ...], tuple[tuple[str, str], ...]]:
+    """Design and detail every strip (over ``workers`` processes; 0: in this one).
+
+    Returns the detailed strips and the (strip id, reason) of those that cannot be designed,
+    both in project-file order; one strip failing does not stop the others."""
+    code = code or default_code(project)
+    progress.start("detailing", len(project.strips))
+    results = map_indexed(
+        _detail_task,
+        (project, code),
+        len(project.strips),
+        workers=workers,
+        on_done=lambda _: progress.advance(),
+    )
+    details = tuple(r for r in results if isinstance(r, StripDetail))
+    failures = tuple(r for r in results if not isinstance(r, StripDetail))
+    return details, failures
+
+
+def _marked(
+    project: Project,
+    details: tuple[StripDetail, ...],
+    previous: dict[BarIdentity, str] | None = None,
+    withdrawn: tuple[str, ...] = (),
+) -> ProjectDetail:
+    """Every bar set with its mark (keeping the marks of ``previous`` for unchanged bars,
+    never reusing ``withdrawn``); the project keeps only the detailed strips."""
+    marked = assign_marks([d.bar_sets for d in details], previous, withdrawn=withdrawn)
+    strips = tuple(dataclasses.replace(d, bar_sets=m) for d, m in zip(details, marked, strict=True))
+    done = {d.strip.id for d in details}
+    kept = tuple(s for s in project.strips if s.id in done)
+    return ProjectDetail(project=dataclasses.replace(project, strips=kept), strips=strips)
 
 
 def detail_with_marks(
@@ -81,38 +154,39 @@ def detail_with_marks(
     previous: dict[BarIdentity, str] | None = None,
     withdrawn: tuple[str, ...] = (),
 ) -> ProjectDetail:
-    """Design and detail every strip, then give every bar set its mark (keeping the marks of
-    ``previous`` for unchanged bars, never reusing ``withdrawn``)."""
-    code = code or default_code(project)
-    details: list[StripDetail] = []
-    failures: list[tuple[str, str]] = []
-    for strip in project.strips:
-        try:
-            details.append(detail_strip(project, strip, code))
-        except DesignError as exc:
-            failures.append((strip.id, str(exc)))
+    """Design and detail every strip, then give every bar set its mark; ``BuildFailed`` when
+    any strip cannot be designed (a build leaves such strips out instead: :func:`make_issue`)."""
+    details, failures = detail_strips(project, code)
     if failures:
-        raise BuildFailed(tuple(failures))
-    marked = assign_marks([d.bar_sets for d in details], previous, withdrawn=withdrawn)
-    strips = tuple(dataclasses.replace(d, bar_sets=m) for d, m in zip(details, marked, strict=True))
-    return ProjectDetail(project=project, strips=strips)
+        raise BuildFailed(failures)
+    return _marked(project, details, previous, withdrawn)
 
 
 def make_issue(
-    project: Project, code: DesignCode | None = None, previous: PreviousIssue | None = None
+    project: Project,
+    code: DesignCode | None = None,
+    previous: PreviousIssue | None = None,
+    *,
+    workers: int = 0,
+    progress: Progress = SILENT,
 ) -> Issue:
     """Marks, schedule, record and change report of a project against its previous issue (pure).
 
-    Unchanged bars keep their marks and schedule rows their revision letters; when nothing
-    changed the issue is ``unchanged`` at the previous revision. Otherwise the revision is
-    chosen by :func:`detailer.revisions.choose_revision`.
+    Strips that cannot be designed are left out (``not_detailed``) and the others issued;
+    ``BuildFailed`` when none can be. Unchanged bars keep their marks and schedule rows their
+    revision letters; when nothing changed the issue is ``unchanged`` at the previous revision.
+    Otherwise the revision is chosen by :func:`detailer.revisions.choose_revision`.
     """
+    code = code or default_code(project)
     members = {s.id: s.members for s in project.strips}
+    details, failed = detail_strips(project, code, workers=workers, progress=progress)
+    if not details:
+        raise BuildFailed(failed)
     if previous is None:
-        detail = detail_with_marks(project, code)
+        detail = _marked(project, details)
         schedule = schedule_for_project(detail, members=members)
-        record = build_record(detail, schedule=schedule)
-        return Issue(detail, schedule, record, "", False, "first issue", "")
+        record = build_record(detail, schedule=schedule, not_detailed=failed)
+        return Issue(detail, schedule, record, "", False, "first issue", "", None, failed)
     data = previous.data
     table, earlier_withdrawn = previous_marks(data)
     history = tuple(
@@ -125,7 +199,7 @@ def make_issue(
     )
     old_rows = previous_rows(data, table)
     at_old = dataclasses.replace(project, revision=previous.revision)
-    detail = detail_with_marks(at_old, code, previous=table, withdrawn=earlier_withdrawn)
+    detail = _marked(at_old, details, table, earlier_withdrawn)
     gone = withdrawn_marks(table, mark_table(s.bar_sets for s in detail.strips), earlier_withdrawn)
     schedule = schedule_for_project(detail, members=members, previous=old_rows)
     same = build_record(
@@ -134,13 +208,18 @@ def make_issue(
         schedule=schedule,
         history=history[:-1],
         description=history[-1].description,
+        not_detailed=failed,
     )
     if same_content(data, record_to_jsonable(same)):
-        return Issue(detail, schedule, same, previous.revision, True, "no change", "")
+        return Issue(detail, schedule, same, previous.revision, True, "no change", "", None, failed)
     revision = choose_revision(project.revision, tuple(r.revision for r in history))
-    detail = dataclasses.replace(detail, project=dataclasses.replace(project, revision=revision))
+    detail = dataclasses.replace(
+        detail, project=dataclasses.replace(detail.project, revision=revision)
+    )
     schedule = schedule_for_project(detail, members=members, previous=old_rows)
-    record = build_record(detail, withdrawn_marks=gone, schedule=schedule, history=history)
+    record = build_record(
+        detail, withdrawn_marks=gone, schedule=schedule, history=history, not_detailed=failed
+    )
     diff = compare_records(view_of(data), view_of(record_to_jsonable(record)))
     text = describe(diff)
     record = dataclasses.replace(
@@ -151,7 +230,7 @@ def make_issue(
         ),
     )
     return Issue(
-        detail, schedule, record, previous.revision, False, text, render_changes(diff), diff
+        detail, schedule, record, previous.revision, False, text, render_changes(diff), diff, failed
     )
 
 
@@ -162,22 +241,64 @@ def build_outputs(
     input_name: str = "",
     input_sha256: str = "",
     previous: PreviousIssue | None = None,
+    options: BuildOptions = BuildOptions(),
 ) -> BuildResult:
     """The output files of a project, by file name (pure). ``input_name``/``input_sha256``
     identify the project file in the calculation report; ``previous`` is the earlier issue
-    (marks kept, revision advanced, change report written; no files when nothing changed)."""
+    (marks kept, revision advanced, change report written; no files when nothing changed).
+    Strips that cannot be designed are left out and listed in ``not_detailed``."""
+    n_strips = len(project.strips)
+    workers = worker_count(n_strips, options.workers)
+    if options.preview_workers is not None:  # started by the caller, who closes them
+        return _build_outputs(
+            project,
+            code,
+            input_name,
+            input_sha256,
+            previous,
+            options,
+            workers,
+            options.preview_workers,
+        )
+    helpers = start_preview_workers(n_strips, options.previews)  # ready while we design
+    try:
+        return _build_outputs(
+            project, code, input_name, input_sha256, previous, options, workers, helpers
+        )
+    finally:
+        if helpers is not None:
+            helpers.close()
+
+
+def _build_outputs(
+    project: Project,
+    code: DesignCode | None,
+    input_name: str,
+    input_sha256: str,
+    previous: PreviousIssue | None,
+    options: BuildOptions,
+    workers: int,
+    helpers: PreviewWorkers | None,
+) -> BuildResult:
     from detailer.audit import audit_layout, parse_schedule_csv
-    from detailer.io.dxf_preview import render_png
-    from detailer.io.dxf_readback import read_layout
-    from detailer.io.dxf_writer import layout_name, write_layout
     from detailer.report import render_report, report_file_name
 
-    issue = make_issue(project, code, previous)
+    progress = options.progress
+    issue = make_issue(project, code, previous, workers=workers, progress=progress)
     detail, schedule, record = issue.detail, issue.schedule, issue.record
+    failed = issue.not_detailed
     if issue.unchanged:
-        return BuildResult(detail, schedule, (), issue.previous_revision, True, issue.description)
+        return BuildResult(
+            detail,
+            schedule,
+            (),
+            issue.previous_revision,
+            True,
+            issue.description,
+            not_detailed=failed,
+        )
     pid = project.id
-    csv_bytes = render_schedule_csv(schedule, project)
+    csv_bytes = render_schedule_csv(schedule, detail.project, failed)
     diff = issue.diff
     changed_ids: frozenset[tuple[str, str]] = frozenset()
     if diff is not None:  # bar sets added or changed at this revision get a marker
@@ -185,10 +306,38 @@ def build_outputs(
             [(s.strip_id, b.set_id) for s in diff.strips for b in s.added]
             + [(s.strip_id, new.set_id) for s in diff.strips for _, new in s.changed]
         )
-    dxf_bytes = write_layout(detail, revisions=record.revisions, changed_set_ids=changed_ids)
-    # The drawing must agree with the schedule it is issued with: audit our own outputs.
+    n = len(detail.strips)
+    previews = options.wants_previews(n)
+    # A drawing split into files is made by the workers while this process writes the
+    # record and the report, which do not depend on it.
+    pending = start_drawing(
+        detail,
+        record.revisions,
+        changed_ids,
+        previews=previews,
+        workers=workers,
+        progress=progress,
+        preview_workers=helpers,
+    )
+    record_data = record_to_jsonable(record)
+    record_bytes = format_json(record_data).encode("utf-8")
+    progress.start("report", 1)
+    report = render_report(
+        detail,
+        record,
+        schedule,
+        input_name=input_name,
+        input_sha256=input_sha256,
+        changes=diff,
+        not_detailed=failed,
+        record_data=record_data,
+    )
+    progress.advance()
+    drawing = pending.finish()
+    # The drawing must agree with the schedule it is issued with: audit our own outputs (the
+    # documents just written, read back through the same code as `slabwright audit`).
     findings = audit_layout(
-        read_layout(dxf_bytes), parse_schedule_csv(csv_bytes.decode("utf-8"), f"{pid}-schedule.csv")
+        drawing.readback, parse_schedule_csv(csv_bytes.decode("utf-8"), f"{pid}-schedule.csv")
     )
     if findings:
         raise DesignError(
@@ -197,24 +346,11 @@ def build_outputs(
         )
     files = [
         (f"{pid}-schedule.csv", csv_bytes),
-        (f"{pid}-record.json", render_record_json(record)),
-        (f"{pid}-layout.dxf", dxf_bytes),
+        (f"{pid}-record.json", record_bytes),
+        *drawing.files,
     ]
-    for sd in detail.strips:
-        files.append((f"{pid}-{sd.strip.id}.png", render_png(dxf_bytes, layout_name(sd.strip.id))))
-    files.append(
-        (
-            report_file_name(pid),
-            render_report(
-                detail,
-                record,
-                schedule,
-                input_name=input_name,
-                input_sha256=input_sha256,
-                changes=diff,
-            ),
-        )
-    )
+    files += [(f"{pid}-{sd.strip.id}.png", png) for sd, png in zip(detail.strips, drawing.previews)]
+    files.append((report_file_name(pid), report))
     if issue.changes:
         files.append((f"{pid}-changes.md", issue.changes.encode("utf-8")))
     return BuildResult(
@@ -223,6 +359,8 @@ def build_outputs(
         files=tuple(files),
         previous_revision=issue.previous_revision,
         description=issue.description,
+        not_detailed=failed,
+        previews_skipped=not previews,
     )
 
 
@@ -232,21 +370,30 @@ def output_dir(project: Project, out: str | Path | None) -> Path:
 
 
 def build(
-    project_path: str | Path, out: str | Path | None = None, previous: str | Path | None = None
+    project_path: str | Path,
+    out: str | Path | None = None,
+    previous: str | Path | None = None,
+    options: BuildOptions = BuildOptions(),
+    project: Project | None = None,
 ) -> tuple[BuildResult, Path]:
     """Read, design, detail and write; returns the result and the folder written to.
 
     The previous issue is ``previous`` (a record file) or the record in the output folder;
     its files are kept in ``<out>/rev-<revision>/`` before the new issue is written. When
-    nothing changed nothing is written (``result.unchanged``).
+    nothing changed nothing is written (``result.unchanged``). ``project``: the file as
+    already read by the caller (it is read here otherwise).
     """
-    project = load_project(project_path)
+    project = project if project is not None else load_project(project_path)
     digest = hashlib.sha256(Path(project_path).read_bytes()).hexdigest()
     folder = output_dir(project, out)
     prev_path = find_previous(folder, project.id, previous)
     prev = read_previous(prev_path, project.id) if prev_path is not None else None
     result = build_outputs(
-        project, input_name=Path(project_path).name, input_sha256=digest, previous=prev
+        project,
+        input_name=Path(project_path).name,
+        input_sha256=digest,
+        previous=prev,
+        options=options,
     )
     if result.unchanged:
         return result, folder

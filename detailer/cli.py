@@ -12,20 +12,23 @@ import argparse
 import os
 import sys
 from collections.abc import Sequence
-from typing import TextIO
+from typing import TYPE_CHECKING, TextIO
 
 from detailer import CAUTION, __version__
-from detailer.codes.en1990 import category_description
 from detailer.errors import DesignError, InputError, ProjectError
 from detailer.model import EndKind, Project, Segment, Strip
-from detailer.pipeline import default_code, detail_strip
 from detailer.project import load_project
-from detailer.strip_analysis import StripAnalysis, analyse_strip
-from detailer.summary import design_lines
+
+if TYPE_CHECKING:
+    from detailer.strip_analysis import StripAnalysis
 
 EXIT_OK = 0
 EXIT_DESIGN_FAILED = 1
 EXIT_INPUT_ERROR = 2
+EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report an interrupted command
+
+#: A build prints one line per strip for this many strips, then a summary line.
+STRIP_LINES_MAX = 20
 
 _END_TEXT = {
     EndKind.PINNED: "pinned end",
@@ -65,6 +68,35 @@ def _parser() -> argparse.ArgumentParser:
         metavar="RECORD.json",
         help="record of the previous issue (default: the record in the output folder)",
     )
+    build.add_argument(
+        "--jobs",
+        type=_jobs,
+        metavar="N",
+        help="worker processes (default: one per CPU when there are more than a handful of "
+        "strips; 1: none)",
+    )
+    previews = build.add_mutually_exclusive_group()
+    previews.add_argument(
+        "--previews",
+        dest="previews",
+        action="store_true",
+        default=None,
+        help="write a PNG preview of every sheet (default: only for projects of up to 8 strips)",
+    )
+    previews.add_argument(
+        "--no-previews", dest="previews", action="store_false", help="write no PNG previews"
+    )
+    shown = build.add_mutually_exclusive_group()
+    shown.add_argument(
+        "--progress",
+        dest="progress",
+        action="store_true",
+        default=None,
+        help="show progress bars on stderr (default: when stderr is a terminal)",
+    )
+    shown.add_argument(
+        "--no-progress", dest="progress", action="store_false", help="show no progress bars"
+    )
     compare = sub.add_parser(
         "compare",
         help="list what changed between two issues of a project (two record files)",
@@ -82,9 +114,24 @@ def _parser() -> argparse.ArgumentParser:
         ),
         epilog=CAUTION,
     )
-    audit.add_argument("drawing", metavar="DRAWING.dxf", help="layout drawing")
+    audit.add_argument(
+        "drawing",
+        metavar="DRAWING.dxf",
+        nargs="+",
+        help="layout drawing (every file of a drawing split into several)",
+    )
     audit.add_argument("schedule", metavar="SCHEDULE.csv", help="bar-bending schedule")
     return p
+
+
+def _jobs(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        value = 0
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"must be a whole number >= 1, not {text!r}")
+    return value
 
 
 def _input_errors(exc: ProjectError, err: TextIO) -> int:
@@ -98,6 +145,10 @@ def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     try:
         return _main(argv)
+    except KeyboardInterrupt:
+        # Outputs are written all at once at the end: an interrupted build wrote nothing.
+        print("interrupted: no output files were changed", file=sys.stderr)
+        return EXIT_INTERRUPTED
     except BrokenPipeError:
         # The reader went away (e.g. `| head`): not an error of ours, and no traceback.
         devnull = os.open(os.devnull, os.O_WRONLY)
@@ -113,7 +164,17 @@ def _main(argv: Sequence[str] | None) -> int:
     if args.command == "check":
         return _check(args.project, sys.stdout, sys.stderr)
     if args.command == "build":
-        return _build(args.project, args.out, sys.stdout, sys.stderr, args.previous)
+        show = args.progress if args.progress is not None else sys.stderr.isatty()
+        return _build(
+            args.project,
+            args.out,
+            sys.stdout,
+            sys.stderr,
+            args.previous,
+            jobs=args.jobs,
+            previews=args.previews,
+            progress=show,
+        )
     if args.command == "compare":
         return _compare(args.old, args.new, sys.stdout, sys.stderr)
     if args.command == "audit":
@@ -131,6 +192,10 @@ def _check(path: str, out: TextIO, err: TextIO) -> int:
     except OSError as exc:  # load_project converts these; kept as a last guard
         print(f"{path}: cannot read the file: {exc.strerror or exc}; check the path", file=err)
         return EXIT_INPUT_ERROR
+    from detailer.pipeline import default_code, detail_strip
+    from detailer.strip_analysis import analyse_strip
+    from detailer.summary import design_lines
+
     code = default_code(project)
     analyses: list[StripAnalysis] = []
     designs: list[list[str]] = []
@@ -150,7 +215,7 @@ def _check(path: str, out: TextIO, err: TextIO) -> int:
     return EXIT_DESIGN_FAILED if failures else EXIT_OK
 
 
-def _audit(drawing: str, schedule: str, out: TextIO, err: TextIO) -> int:
+def _audit(drawing: str | list[str], schedule: str, out: TextIO, err: TextIO) -> int:
     from detailer.audit import run_audit
 
     try:
@@ -159,10 +224,11 @@ def _audit(drawing: str, schedule: str, out: TextIO, err: TextIO) -> int:
         print(str(exc), file=err)
         return EXIT_INPUT_ERROR
     out.writelines(f"{finding}\n" for finding in report.findings)
+    shown = drawing if isinstance(drawing, str) else " + ".join(drawing)
     if report.ok:
-        out.write(f"OK: {drawing} agrees with {schedule}\n")
+        out.write(f"OK: {shown} agrees with {schedule}\n")
     else:
-        out.write(f"{len(report.findings)} disagreement(s) between {drawing} and {schedule}\n")
+        out.write(f"{len(report.findings)} disagreement(s) between {shown} and {schedule}\n")
     out.write(CAUTION + "\n")
     return EXIT_OK if report.ok else EXIT_DESIGN_FAILED
 
@@ -186,26 +252,88 @@ def _compare(old: str, new: str, out: TextIO, err: TextIO) -> int:
 
 
 def _build(
-    path: str, out_dir: str | None, out: TextIO, err: TextIO, previous: str | None = None
+    path: str,
+    out_dir: str | None,
+    out: TextIO,
+    err: TextIO,
+    previous: str | None = None,
+    *,
+    jobs: int | None = None,
+    previews: bool | None = None,
+    progress: bool = False,
 ) -> int:
-    from detailer.build import BuildFailed, build
+    from detailer.progress import SILENT, terminal_progress
 
-    try:
-        result, folder = build(path, out_dir, previous)
+    try:  # read first: preview workers, if any, then get ready while the rest is imported
+        project = load_project(path)
     except ProjectError as exc:
         return _input_errors(exc, err)
+    helpers = _start_previews(len(project.strips), previews)
+    try:
+        from detailer.build import BuildOptions
+
+        bar = terminal_progress(err) if progress else SILENT
+        options = BuildOptions(
+            workers=jobs, previews=previews, progress=bar, preview_workers=helpers
+        )
+        return _run_build(path, out_dir, out, err, previous, options, project)
+    finally:
+        if helpers is not None:
+            helpers.close()
+
+
+def _start_previews(n_strips: int, previews: bool | None):
+    from detailer.preview_workers import start_preview_workers
+
+    return start_preview_workers(n_strips, previews)
+
+
+def _run_build(path, out_dir, out, err, previous, options, project) -> int:
+    from detailer.build import BuildFailed, build
+
+    bar = options.progress
+    try:
+        result, folder = build(path, out_dir, previous, options, project)
+    except ProjectError as exc:
+        bar.close()
+        return _input_errors(exc, err)
     except BuildFailed as exc:
-        for strip_id, reason in exc.failures:
+        bar.close()
+        for _, reason in exc.failures:
             print(reason, file=err)
         print(f"{path}: {exc}; no files were written", file=err)
         print(CAUTION, file=err)
         return EXIT_DESIGN_FAILED
     except InputError as exc:  # e.g. an output folder that cannot be written
+        bar.close()
         print(str(exc), file=err)
         return EXIT_INPUT_ERROR
     except ValueError as exc:  # a revision that cannot be advanced
+        bar.close()
         print(f"{path}: {exc}", file=err)
         return EXIT_INPUT_ERROR
+    bar.close()
+    code = _report_build(path, result, folder, out)
+    if result.not_detailed:
+        for _, reason in result.not_detailed:
+            print(reason, file=err)
+        n_all = len(result.detail.strips) + len(result.not_detailed)
+        ids = ", ".join(i for i, _ in result.not_detailed)
+        done = "written" if not result.unchanged else "unchanged"
+        print(
+            f"{path}: {len(result.not_detailed)} of {n_all} strip(s) cannot be designed as "
+            f"given ({ids}): they have no bars, sheet or schedule rows in this issue; the other "
+            f"{len(result.detail.strips)} were {done}",
+            file=err,
+        )
+        return EXIT_DESIGN_FAILED
+    return code
+
+
+def _report_build(path: str, result, folder, out: TextIO) -> int:
+    """Print what a build did on ``out``; the exit code when no strip failed."""
+    from detailer.preview_workers import PREVIEW_MAX_STRIPS
+
     detail = result.detail
     if result.unchanged:
         out.write(
@@ -218,7 +346,16 @@ def _build(
     out.write(
         f"Project {detail.project.id}: {detail.project.title} (revision {detail.project.revision})\n"
     )
-    for sd in detail.strips:
+    for k, sd in enumerate(detail.strips):
+        if k == STRIP_LINES_MAX and len(detail.strips) > STRIP_LINES_MAX + 1:
+            rest = len(detail.strips) - k
+            worst = max(detail.strips[k:], key=lambda d: d.selfcheck.utilisation_max)
+            out.write(
+                f"  ... and {rest} more strips (largest self-check utilisation "
+                f"{worst.selfcheck.utilisation_max:.2f}, strip {worst.strip.id}); "
+                "every strip is in the report\n"
+            )
+            break
         sc = sd.selfcheck
         n_bars = sum(b.count for b in sd.bar_sets)
         out.write(
@@ -236,6 +373,14 @@ def _build(
     if result.archive_dir is not None:
         out.write(f"  kept revision {result.previous_revision} in {result.archive_dir}\n")
     out.writelines(f"  wrote {folder / name}\n" for name, _ in result.files)
+    if result.previews_skipped and detail.strips:
+        out.write(
+            f"  no PNG previews for {len(detail.strips)} strips (written for up to "
+            f"{PREVIEW_MAX_STRIPS}); add --previews to render them\n"
+        )
+    if result.not_detailed:
+        ids = ", ".join(i for i, _ in result.not_detailed)
+        out.write(f"  INCOMPLETE ISSUE: not detailed: {ids} (reasons on stderr)\n")
     out.write(CAUTION + "\n")
     return EXIT_OK
 
@@ -269,6 +414,8 @@ def _other_loads(seg: Segment) -> str:
 
 
 def _strip_text(project: Project, strip: Strip, a: StripAnalysis) -> list[str]:
+    from detailer.codes.en1990 import category_description
+
     title = f"Strip {strip.id}" + (f": {strip.description}" if strip.description else "")
     origin = (
         "the free tip of the left cantilever"

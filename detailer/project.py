@@ -12,13 +12,19 @@ __all__ = [
     "BAR_DIAMETERS_MM",
     "CONCRETE_CLASSES",
     "EXPOSURE_CLASSES",
+    "MAX_FILE_BYTES",
+    "MAX_STRIPS",
+    "decode_project_bytes",
     "load_project",
     "parse_project",
+    "read_project_text",
 ]
 
 import difflib
 import math
 import os
+import re
+import unicodedata
 from typing import Any
 
 from pydantic import ValidationError
@@ -36,6 +42,11 @@ from detailer.project_build import (
 from detailer.project_ga import apply_general_arrangement
 from detailer.project_schema import FileIn, fields_at
 from detailer.project_yaml import DOCUMENT, Path, YamlSource, read_yaml
+
+#: Largest project file read (a 2000-strip floor is about 0.5 MiB); larger is not a project.
+MAX_FILE_BYTES = 4 * 2**20
+#: Most strips in one project file (a floor of 500 strips is normal).
+MAX_STRIPS = 2000
 
 # What to do about a bad value, by key name (the last name in the error's path).
 _FIX: dict[str, str] = {
@@ -111,22 +122,116 @@ _TYPE_NAMES = {
 def load_project(path: str | os.PathLike[str]) -> Project:
     """Read, validate and build the project in ``path``. Raises ProjectError (one per mistake)."""
     file = os.fspath(path)
+    return parse_project(read_project_text(file), file)
+
+
+def read_project_text(file: str) -> str:
+    """The text of the project file ``file``; a one-line ProjectError when it is not one."""
+    if os.path.isdir(file):
+        raise ProjectError(
+            file, "this is a folder, not a file", fix="give the project .yaml file inside it"
+        )
     try:
-        with open(file, encoding="utf-8") as fh:
-            text = fh.read()
-    except UnicodeDecodeError:
+        with open(file, "rb") as fh:
+            size = os.fstat(fh.fileno()).st_size
+            if size > MAX_FILE_BYTES:
+                raise ProjectError(
+                    file,
+                    f"the file is {size / 2**20:.1f} MiB, more than the {MAX_FILE_BYTES >> 20} MiB "
+                    "a project file may have",
+                    fix="check that this is the project YAML (a 2000-strip floor is under 1 MiB)",
+                )
+            data = fh.read(MAX_FILE_BYTES + 1)
+    except OSError as exc:
+        raise ProjectError(
+            file, f"cannot read the file: {_reason(exc)}", fix=_read_fix(file, exc)
+        ) from None
+    if len(data) > MAX_FILE_BYTES:  # a device or pipe that states no size
         raise ProjectError(
             file,
-            "not a text file (not UTF-8)",
+            f"more than {MAX_FILE_BYTES >> 20} MiB of data",
+            fix="give the project YAML file (a 2000-strip floor is under 1 MiB)",
+        )
+    return decode_project_bytes(data, file)
+
+
+def decode_project_bytes(data: bytes, file: str) -> str:
+    """UTF-8 text of a project file's bytes (a BOM is allowed); ProjectError for binary data."""
+    kind = _binary_kind(data)
+    if kind is not None:
+        raise ProjectError(
+            file,
+            f"not a text file ({kind})",
             line=1,
+            key_path=DOCUMENT,
+            fix="give the project YAML file, saved as UTF-8 text",
+        )
+    if _is_utf16(data):
+        raise ProjectError(
+            file,
+            "not UTF-8: the file is saved as UTF-16 text",
+            line=1,
+            key_path=DOCUMENT,
+            fix="save it again as UTF-8 (in the editor's encoding menu)",
+        )
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = data.count(b"\n", 0, exc.start) + 1
+        raise ProjectError(
+            file,
+            f"not a text file (not UTF-8: byte 0x{data[exc.start]:02X} at offset {exc.start})",
+            line=line,
             key_path=DOCUMENT,
             fix="save the project as UTF-8 YAML text",
         ) from None
-    except OSError as exc:
-        raise ProjectError(
-            file, f"cannot read the file: {exc.strerror or exc}", fix="check the path and name"
-        ) from None
-    return parse_project(text, file)
+
+
+# Leading bytes of binary files a project file is commonly mistaken for (file signatures).
+_SIGNATURES: tuple[tuple[bytes, str], ...] = (
+    (b"PK\x03\x04", "a ZIP archive, e.g. an .xlsx, .docx or .zip file"),
+    (b"%PDF", "a PDF document"),
+    (b"\xd0\xcf\x11\xe0", "an old Office document, e.g. an .xls file"),
+    (b"AC10", "a DWG drawing"),
+    (b"\x89PNG", "a PNG image"),
+    (b"\x1f\x8b", "a gzip archive"),
+)
+
+
+def _binary_kind(data: bytes) -> str | None:
+    for magic, kind in _SIGNATURES:
+        if data.startswith(magic):
+            return kind
+    return None
+
+
+def _is_utf16(data: bytes) -> bool:
+    """Text saved as UTF-16 with a byte-order mark (as some Windows editors do)."""
+    if not data.startswith((b"\xff\xfe", b"\xfe\xff")):
+        return False
+    try:
+        text = data.decode("utf-16")
+    except UnicodeDecodeError:
+        return False
+    return "\x00" not in text
+
+
+def _reason(exc: OSError) -> str:
+    return (exc.strerror or type(exc).__name__).strip().rstrip(".").lower()
+
+
+def _read_fix(file: str, exc: OSError) -> str:
+    if isinstance(exc, PermissionError):
+        return "you may not read it: fix its permissions or copy it somewhere you can read"
+    if isinstance(exc, FileNotFoundError):
+        folder, name = os.path.split(file)
+        try:
+            near = difflib.get_close_matches(name, os.listdir(folder or "."), n=1, cutoff=0.7)
+        except OSError:
+            near = []
+        if near:
+            return f"did you mean {os.path.join(folder, near[0])}?"
+    return "check the path and name"
 
 
 def parse_project(text: str, file: str = "<project>") -> Project:
@@ -142,6 +247,13 @@ def parse_project(text: str, file: str = "<project>") -> Project:
             fix="start the file with project:, materials: and strips: blocks",
         )
     locator = _Locator(file, source)
+    strips = data.get("strips")
+    if isinstance(strips, list) and len(strips) > MAX_STRIPS:
+        raise locator.error(
+            ("strips",),
+            f"{len(strips)} strips are more than the {MAX_STRIPS} one project file may have",
+            "split the floor into several project files",
+        )
     merged = apply_general_arrangement(locator.merge_defaults(data), file, locator.error)
     try:
         validated = FileIn.model_validate(merged)
@@ -195,20 +307,34 @@ def _show(value: Any) -> str:
 
 def _number_text_hint(text: str) -> str | None:
     """Fix for a number that arrived as text, e.g. '1e3'; None when it is not a number."""
+    stripped = text.strip()
+    if not stripped.isascii():
+        # Python's float() reads full-width and other Unicode digits; YAML and we do not.
+        ascii_digits = unicodedata.normalize("NFKC", stripped)
+        ascii_digits = "".join(str(int(c)) if c.isdecimal() else c for c in ascii_digits)
+        if ascii_digits.isascii() and _number_text_hint(ascii_digits) is not None:
+            return f"write the number with ASCII digits 0-9: {ascii_digits}"
+        return None
+    grouped = re.fullmatch(r"[-+]?\d{1,3}(?:[ ,'_]\d{3})+", stripped)
+    if grouped and not stripped.replace("_", "").lstrip("+-").isdigit():
+        plain = re.sub(r"[ ,'_]", "", stripped)
+        return f"write the number without digit-group separators: {plain}"
+    if re.fullmatch(r"[-+]?\d+,\d+", stripped):
+        return f"use a decimal point, not a comma: {stripped.replace(',', '.')}"
     try:
-        value = float(text.replace("_", ""))
+        value = float(stripped.replace("_", ""))
     except ValueError:
         return None
     if not math.isfinite(value):
         return "give a finite number"
-    if "e" not in text.lower():
-        return f"remove the quotes: write {text.strip()}"
+    if "e" not in stripped.lower():
+        return f"remove the quotes: write {stripped}"
     plain = f"{value:.0f}" if value == int(value) and abs(value) < 1e12 else repr(value)
     mantissa, exponent = f"{value:.6e}".split("e")
     mantissa = mantissa.rstrip("0")
     mantissa += "0" if mantissa.endswith(".") else ""
     sci = f"{mantissa}e{int(exponent):+d}"
-    return f"YAML 1.1 reads {text.strip()} as text; write {plain} or {sci}"
+    return f"YAML 1.1 reads {stripped} as text; write {plain} or {sci}"
 
 
 class _Locator:
@@ -370,4 +496,6 @@ class _Locator:
             return f"expected {wanted} (got {_show(given)})", fix
         if whole and isinstance(given, float):
             return f"must be a whole number (got {_show(given)})", fix
+        if isinstance(given, int):  # an integer too large for a float
+            return f"a {len(str(abs(given)))}-digit number is far too large", fix
         return f"expected {wanted} (got {_kind(given)})", fix

@@ -6,7 +6,7 @@ Every user mistake is reported through the ``error`` factory handed in by ``deta
 
 from __future__ import annotations
 
-__all__ = ["BAR_DIAMETERS_MM", "CONCRETE_CLASSES", "EXPOSURE_CLASSES", "build_project"]
+__all__ = ["BAR_DIAMETERS_MM", "CONCRETE_CLASSES", "EXPOSURE_CLASSES", "MAX_SPANS", "build_project"]
 
 import itertools
 import re
@@ -32,7 +32,7 @@ from detailer.model import (
     StripEnd,
     Support,
 )
-from detailer.project_schema import EndIn, FileIn, LoadsIn, StripIn, WhereIn
+from detailer.project_schema import EndIn, FileIn, LoadsIn, StripIn, WhereIn, unportable_name
 
 ErrorFactory = Callable[[tuple, str, str], ProjectError]
 
@@ -57,6 +57,11 @@ _MIN_SPAN_MM = 300.0
 _MAX_SPAN_MM = 30000.0
 _MAX_AREA_LOAD = 100.0  # kN/m2
 _MAX_LINE_LOAD = 500.0  # kN/m
+#: Most spans in one strip: 50 spans of 3-6 m is a 150-300 m floor, far past the usual spacing
+#: of movement joints (common practice), and the analysis grows with the square of the spans.
+MAX_SPANS = 50
+#: No nominal cover can be below 10 mm: c_min >= 10 mm, EN 1992-1-1:2004, 4.4.1.2(2), Eq. (4.2).
+_MIN_COVER_MM = 10.0
 
 # Steel notation of BS 8666 (as amended 2008, from memory) -> ductility classes it covers.
 _BAR_TYPE_DUCTILITY = {"H": "ABC", "A": "A", "B": "BC", "C": "C"}
@@ -84,16 +89,23 @@ def build_project(f: FileIn, error: ErrorFactory) -> Project:
     materials = _materials(f, fail)
     reinforcement = _reinforcement(f, fail)
     analysis = _analysis(f, fail)
+    problem = unportable_name(f.project.id)  # the id names the output folder and files
+    if problem is not None:
+        fail(("project", "id"), *problem)
     strips: list[Strip] = []
-    seen: dict[str, int] = {}
+    seen: dict[str, int] = {}  # ids in lower case: each strip has output files of its own
     for i, s in enumerate(f.strips):
-        if s.id in seen:
+        first = seen.setdefault(s.id.casefold(), i)
+        if first != i:
+            other = f.strips[first].id
             fail(
                 ("strips", i, "id"),
-                f"duplicate strip id '{s.id}' (also strips[{seen[s.id]}])",
+                f"duplicate strip id '{s.id}' (also strips[{first}])"
+                if other == s.id
+                else f"strip id '{s.id}' differs from '{other}' (strips[{first}]) only in letter "
+                "case: their output files would clash on Windows and macOS",
                 "give every strip its own id",
             )
-        seen.setdefault(s.id, i)
         strip = _strip(s, ("strips", i), materials, reinforcement, chk)
         if strip is not None:
             strips.append(strip)
@@ -255,6 +267,15 @@ def _strip(
             "spans_mm lists span lengths; supports_mm lists support centreline positions",
         )
         return None
+    given = s.spans_mm if s.spans_mm is not None else s.supports_mm or []
+    n_spans_given = len(given) - (s.spans_mm is None)
+    if n_spans_given > MAX_SPANS:
+        fail(
+            (*path, "spans_mm" if s.spans_mm is not None else "supports_mm"),
+            f"{n_spans_given} spans are more than the {MAX_SPANS} one strip may have",
+            "split the strip into several strips (e.g. at movement joints)",
+        )
+        return None
     if s.spans_mm is not None:
         key = "spans_mm"
         spans = [float(v) for v in s.spans_mm]
@@ -362,6 +383,13 @@ def _strip(
                 (*path, "cover", ckey),
                 f"cover {c:g} mm is not less than the slab thickness {h:g} mm",
                 "give the nominal cover in mm, e.g. 25",
+            )
+        elif c < _MIN_COVER_MM:
+            fail(
+                (*path, "cover", ckey),
+                f"cover {c:g} mm is below the {_MIN_COVER_MM:g} mm minimum of EN 1992-1-1 "
+                "4.4.1.2(2)",
+                "give the nominal cover in mm, e.g. 25 (not in cm)",
             )
     d_min = min(reinforcement.diameters_mm)
     if max(c_top, c_bot) < h and c_top + c_bot + 2 * d_min >= h:

@@ -57,6 +57,13 @@ def apply_general_arrangement(
             "layers must map slab, supports and strips to layer names",
             "e.g. layers: {slab: SLAB, supports: BEAMS, strips: STRIPS}",
         )
+    for role, name in layers.items():
+        if not isinstance(name, str) or not name.strip():
+            raise error(
+                ("geometry", "layers", role),
+                f"expected a layer name (got {name!r})",
+                "give the DXF layer name as text, e.g. " + role + ": GA-" + role.upper(),
+            )
     path = dxf if os.path.isabs(dxf) else os.path.join(os.path.dirname(file) or ".", dxf)
     ga = read_general_arrangement(path, GALayers(**layers), units_if_missing=units)
     ids = [s.id for s in ga.strips]
@@ -70,6 +77,14 @@ def apply_general_arrangement(
             out.append(s)
             continue
         sid = s.get("id")
+        if isinstance(sid, int) and not isinstance(sid, bool):
+            sid = str(sid)  # an unquoted id such as 101 (the schema reads it as text too)
+        if not isinstance(sid, str):
+            raise error(
+                ("strips", i, "id") if "id" in s else ("strips", i),
+                f"needs an id to find the strip in {dxf}",
+                "add id: with the id written beside the strip on the drawing",
+            )
         if sid not in ids:
             raise error(
                 ("strips", i, "id"),

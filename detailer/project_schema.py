@@ -8,7 +8,7 @@ against thickness, load positions against segment lengths) are checked afterward
 
 from __future__ import annotations
 
-__all__ = ["FileIn", "StripIn", "fields_at"]
+__all__ = ["FileIn", "StripIn", "fields_at", "unportable_name"]
 
 import datetime as _dt
 import typing
@@ -198,6 +198,24 @@ class FileIn(_In):
     materials: MaterialsIn
     reinforcement: ReinforcementIn = ReinforcementIn()
     strips: Annotated[list[StripIn], Field(min_length=1)]
+
+
+#: Names Windows reserves for devices: no folder or file may be called so (with any extension).
+_RESERVED_NAMES = frozenset(
+    ["CON", "PRN", "AUX", "NUL"] + [f"{p}{n}" for p in ("COM", "LPT") for n in range(1, 10)]
+)
+
+
+def unportable_name(name: str) -> tuple[str, str] | None:
+    """(what is wrong, fix) when an id that passes ``Id`` cannot name a folder everywhere."""
+    if name.split(".")[0].upper() in _RESERVED_NAMES:
+        return (
+            f"'{name}' is a device name on Windows and cannot name the output folder",
+            f"choose another id, e.g. {name.split('.')[0]}-1",
+        )
+    if name.endswith("."):
+        return f"'{name}' ends with '.', which Windows drops from folder names", "remove the '.'"
+    return None
 
 
 def _model_in(annotation: Any) -> type[BaseModel] | None:

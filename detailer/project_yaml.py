@@ -28,6 +28,9 @@ _FLOAT_TAG = "tag:yaml.org,2002:float"
 _MERGE_TAG = "tag:yaml.org,2002:merge"
 _OCTAL = re.compile(r"^[-+]?0[0-7_]+$")
 _MAX_DEPTH = 40
+#: Most values (keys, items, scalars) a file may expand to. A 2000-strip floor is about 50 000;
+#: anchors and aliases repeated inside each other ("billion laughs") expand exponentially.
+MAX_VALUES = 500_000
 
 
 @dataclass(frozen=True, slots=True)
@@ -43,7 +46,16 @@ def read_yaml(text: str, file: str) -> YamlSource:
     try:
         root = yaml.compose(text, Loader=yaml.SafeLoader)
     except yaml.YAMLError as exc:
-        raise _syntax_error(exc, file) from None
+        raise _syntax_error(exc, file, text) from None
+    except RecursionError:
+        # PyYAML composes nested collections recursively: thousands of '[' exhaust the stack.
+        raise ProjectError(
+            file,
+            "nested too deeply (brackets or indentation thousands of levels deep)",
+            line=1,
+            key_path=DOCUMENT,
+            fix="this is not a project file: check that the right file was given",
+        ) from None
     if root is None:
         raise ProjectError(
             file,
@@ -53,23 +65,55 @@ def read_yaml(text: str, file: str) -> YamlSource:
             fix="start with project:, materials: and strips: blocks (see sample_projects/)",
         )
     reader = _Reader(file)
-    data = reader.walk(root, (), 0)
+    try:
+        data = reader.walk(root, (), 0)
+    except _Stop as stop:
+        raise stop.error from None
     if reader.errors:
         raise ProjectErrors(reader.errors)
     return YamlSource(data=data, lines=reader.lines)
 
 
-def _syntax_error(exc: yaml.YAMLError, file: str) -> ProjectError:
+def _syntax_error(exc: yaml.YAMLError, file: str, text: str) -> ProjectError:
     mark = getattr(exc, "problem_mark", None) or getattr(exc, "context_mark", None)
     problem = getattr(exc, "problem", None) or str(exc).splitlines()[0]
+    line = mark.line + 1 if mark is not None else 1
     column = f" (column {mark.column + 1})" if mark is not None else ""
+    fix = "check the indentation, colons and quotes on this line or the one before"
+    if isinstance(exc, yaml.reader.ReaderError):
+        # A control character (NUL, ...): no mark, only the offset into the text.
+        line = text.count("\n", 0, max(0, exc.position)) + 1
+        column = ""
+        problem = f"control character {_char_code(exc.character)} in the text"
+        fix = "remove it; if the file is not a text file, give the project YAML instead"
+    elif "'\\t'" in problem or "\t" in problem:
+        fix = "indent with spaces, not tabs"
+    elif "stream end" in problem or "end of stream" in problem:
+        fix = (
+            "the file ends inside an unclosed quote or bracket: close it "
+            "(or the file was cut short: save or copy it again)"
+        )
+    elif "another document" in problem:
+        fix = "keep one YAML document per file: remove the second '---' and what follows"
     return ProjectError(
-        file,
-        f"not valid YAML: {problem}{column}",
-        line=mark.line + 1 if mark is not None else 1,
-        key_path=DOCUMENT,
-        fix="check the indentation, colons and quotes on this line or the one before",
+        file, f"not valid YAML: {problem}{column}", line=line, key_path=DOCUMENT, fix=fix
     )
+
+
+def _char_code(character: object) -> str:
+    if isinstance(character, str) and len(character) == 1:
+        return f"U+{ord(character):04X}"
+    if isinstance(character, int):
+        return f"U+{character:04X}"
+    return repr(character)
+
+
+class _Stop(Exception):
+    """Raised inside the walk to give up on the file at once (one error is enough)."""
+
+    def __init__(self, error: ProjectError) -> None:
+        super().__init__(str(error))
+        self.error = error
 
 
 class _Reader:
@@ -78,6 +122,7 @@ class _Reader:
         self.lines: dict[Path, int] = {(): 1}
         self.errors: list[ProjectError] = []
         self._constructor = yaml.SafeLoader("")
+        self._values = 0
 
     def _error(self, node: Node, path: Path, message: str, fix: str) -> None:
         self.errors.append(
@@ -90,10 +135,35 @@ class _Reader:
             )
         )
 
+    def _stop(self, node: Node, path: Path, message: str, fix: str) -> _Stop:
+        return _Stop(
+            ProjectError(
+                self.file,
+                message,
+                line=node.start_mark.line + 1,
+                key_path=format_key_path(path) or DOCUMENT,
+                fix=fix,
+            )
+        )
+
     def walk(self, node: Node, path: Path, depth: int) -> Any:
+        # Aliases are the same node again: a recursive anchor never ends, a nested one explodes.
+        self._values += 1
+        if self._values > MAX_VALUES:
+            raise self._stop(
+                node,
+                (),
+                f"the file expands to more than {MAX_VALUES} values "
+                "(anchors '&' and aliases '*' repeated inside each other)",
+                "write the values out, or put shared strip values in the defaults: block",
+            )
         if depth > _MAX_DEPTH:
-            self._error(node, path, "nested too deeply", "remove recursive anchors/aliases")
-            return None
+            raise self._stop(
+                node,
+                path[:4],
+                f"nested more than {_MAX_DEPTH} levels deep",
+                "remove the recursive anchor/alias (an alias '*' inside its own anchor '&')",
+            )
         if isinstance(node, MappingNode):
             return self._mapping(node, path, depth)
         if isinstance(node, SequenceNode):
@@ -135,8 +205,18 @@ class _Reader:
     def _scalar(self, node: ScalarNode, path: Path) -> Any:
         try:
             value = self._constructor.construct_object(node, deep=True)
-        except (yaml.YAMLError, ValueError, OverflowError) as exc:
-            self._error(node, path, f"cannot read {node.value!r}: {exc}", "correct it or quote it")
+        except Exception as exc:  # noqa: BLE001 - PyYAML's constructors raise assorted types
+            # on a value that does not fit its tag, e.g. '!!int' with nothing (IndexError).
+            tag = node.tag.replace("tag:yaml.org,2002:", "!!")
+            reason = getattr(exc, "problem", None) or ""
+            if not reason and isinstance(exc, (ValueError, OverflowError)):
+                reason = str(exc).splitlines()[0] if str(exc) else ""
+            self._error(
+                node,
+                path,
+                f"cannot read {node.value!r} as {tag}" + (f" ({reason})" if reason else ""),
+                "correct the value, or quote it (and drop any !! tag) if it is text",
+            )
             return None
         if node.style is None and node.tag in (_INT_TAG, _FLOAT_TAG):
             text = node.value

@@ -23,6 +23,7 @@ __all__ = [
     "LineLoadRecord",
     "MarkRecord",
     "MaterialsRecord",
+    "NotDetailedRecord",
     "PartialLoadRecord",
     "ProjectRecord",
     "RevisionRecord",
@@ -40,6 +41,7 @@ __all__ = [
 
 import dataclasses
 import enum
+import functools
 import math
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
@@ -255,6 +257,12 @@ class RevisionRecord:
 
 
 @dataclass(frozen=True, slots=True, kw_only=True)
+class NotDetailedRecord:
+    strip_id: str
+    reason: str  # one line: why the strip could not be designed as given
+
+
+@dataclass(frozen=True, slots=True, kw_only=True)
 class ScheduleRowRecord:
     member: str
     mark: str
@@ -283,6 +291,7 @@ class ProjectRecord:
     total_mass_kg: float
     revisions: tuple[RevisionRecord, ...] = ()  # every issue, oldest first, this one last
     schedule: tuple[ScheduleRowRecord, ...] = ()
+    not_detailed: tuple[NotDetailedRecord, ...] = ()  # strips left out of this issue
 
 
 # --------------------------------------------------------------------------------------------
@@ -415,6 +424,7 @@ def _actions(detail: StripDetail) -> ActionsRecord:
 def _stations(detail: StripDetail) -> tuple[StationRecord, ...]:
     env = detail.analysis.uls
     st = env.stations
+    by = {kind: env.governing_labels(kind) for kind in ("m_max", "m_min", "v_max", "v_min")}
     out = []
     for i in range(len(st)):
         out.append(
@@ -426,10 +436,10 @@ def _stations(detail: StripDetail) -> tuple[StationRecord, ...]:
                 m_min_knm=float(env.m_min_knm[i]),
                 v_max_kn=float(env.v_max_kn[i]),
                 v_min_kn=float(env.v_min_kn[i]),
-                m_max_by=env.governing("m_max", i).label,
-                m_min_by=env.governing("m_min", i).label,
-                v_max_by=env.governing("v_max", i).label,
-                v_min_by=env.governing("v_min", i).label,
+                m_max_by=by["m_max"][i],
+                m_min_by=by["m_min"][i],
+                v_max_by=by["v_max"][i],
+                v_min_by=by["v_min"][i],
             )
         )
     return tuple(out)
@@ -515,13 +525,15 @@ def build_record(
     schedule: Schedule | None = None,
     history: Sequence[RevisionRecord] = (),
     description: str = "first issue",
+    not_detailed: Sequence[tuple[str, str]] = (),
 ) -> ProjectRecord:
     """The record of a detailed project whose bar sets carry their marks.
 
     ``withdrawn_marks``: marks issued before and no longer used (kept so they are never given
     to another bar; see :func:`detailer.marks.withdrawn_marks`). ``schedule``: the issued
     schedule, whose rows (with their revision letters) are recorded; ``history``: the earlier
-    issues, to which this one is added with ``description``.
+    issues, to which this one is added with ``description``; ``not_detailed``: (strip id,
+    reason) of the strips that could not be designed and are left out of this issue.
     """
     p = detail.project
     m = p.materials
@@ -575,6 +587,7 @@ def build_record(
             )
             for r in rows
         ),
+        not_detailed=tuple(NotDetailedRecord(strip_id=i, reason=r) for i, r in not_detailed),
     )
 
 
@@ -600,6 +613,7 @@ _DEFAULT_DP: Final = 4
 _OBJECT_FIELDS: Final = frozenset({"dims_mm"})  # (name, value) pairs written as a JSON object
 
 
+@functools.cache
 def _decimals(field_name: str) -> int:
     for suffix, dp in _DP_BY_SUFFIX:
         if field_name.endswith(suffix):
@@ -617,7 +631,20 @@ def _number(value: float, dp: int) -> float | int | None:
     return r
 
 
+@functools.cache
+def _field_names(cls: type) -> tuple[str, ...] | None:
+    """The field names of a dataclass type, None for any other type (cached per type)."""
+    if dataclasses.is_dataclass(cls):
+        return tuple(f.name for f in dataclasses.fields(cls))
+    return None
+
+
 def _convert(value: Any, name: str) -> Any:
+    kind = type(value)  # exact types first: most of a record is plain floats and strings
+    if kind is float:
+        return _number(value, _decimals(name))
+    if kind is str or kind is int or kind is bool or value is None:
+        return value
     if isinstance(value, (bool, np.bool_)):
         return bool(value)
     if isinstance(value, enum.Enum):
@@ -628,8 +655,9 @@ def _convert(value: Any, name: str) -> Any:
         return _number(value, _decimals(name))
     if value is None or isinstance(value, str):
         return value
-    if dataclasses.is_dataclass(value) and not isinstance(value, type):
-        out = {f.name: _convert(getattr(value, f.name), f.name) for f in dataclasses.fields(value)}
+    names = _field_names(type(value))
+    if names is not None:
+        out = {n: _convert(getattr(value, n), n) for n in names}
         if isinstance(value, Check):  # a property, wanted in the record
             out["utilisation"] = _number(value.utilisation, _DEFAULT_DP)
         return out

@@ -90,9 +90,16 @@ def face_resistance(
         area += a * frac
         area_d += a * frac * d
     m_rd = np.zeros_like(x)
-    nz = area > 1e-9
-    for i in np.flatnonzero(nz):
-        m_rd[i] = code.moment_resistance(float(area[i]), B_MM, float(area_d[i] / area[i]), mat)
+    nz = np.flatnonzero(area > 1e-9)
+    if len(nz):
+        # The area is constant along most of the strip: one resistance per distinct
+        # (area, depth) pair, rounded far below any engineering significance.
+        pairs = np.round(np.column_stack((area[nz], area_d[nz] / area[nz])), 6)
+        unique, inverse = np.unique(pairs, axis=0, return_inverse=True)
+        values = np.array(
+            [code.moment_resistance(float(a), B_MM, float(d), mat) for a, d in unique]
+        )
+        m_rd[nz] = values[inverse.reshape(-1)]
     # Inside an end support the moment passes into the support at its face: no check there.
     demand = np.where(
         (x >= geom.check_left_mm - 1e-6) & (x <= geom.check_right_mm + 1e-6),

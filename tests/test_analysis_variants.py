@@ -34,6 +34,8 @@ from analysis.arrangements import (
 from analysis.beam import BeamModel, Load, PointLoad, Restraint, UniformLoad
 from analysis.envelope import StripEnvelope, analyse_envelope, analyse_envelope_variants
 from analysis.stiffness import solve
+from detailer.strip_analysis import analyse_strip
+from tests.strip_factory import build_project, strip_specs
 
 PIN, FIX, FREE = Restraint.PINNED, Restraint.FIXED, Restraint.FREE
 F = ActionFactors()
@@ -334,3 +336,17 @@ def test_variant_envelope_bounds_every_variant(
             gov = env.governing(kind, i)
             m, _ = env.arrangement_values(gov, np.array([i]))
             assert m[0] == pytest.approx(arr[i], abs=1e-9 * (1 + np.abs(arr).max()))
+
+
+@settings(max_examples=15, deadline=None)
+@given(spec=strip_specs())
+def test_governing_labels_of_all_stations_match_station_by_station(spec) -> None:
+    """The vectorised labels (used by the record) equal ``governing(kind, i).label`` at every
+    station, for strips with and without monolithic ends (several restraint variants)."""
+    project = build_project(spec)
+    analysis = analyse_strip(project, project.strips[0])
+    for env in (analysis.uls, analysis.sls_quasi_permanent):
+        for kind in ("m_max", "m_min", "v_max", "v_min"):
+            fast = env.governing_labels(kind)
+            slow = tuple(env.governing(kind, i).label for i in range(len(env.stations)))
+            assert fast == slow

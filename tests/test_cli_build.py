@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import csv
 import io
+import re
 import shutil
 from pathlib import Path
 
@@ -38,7 +39,7 @@ def built(tmp_path_factory) -> Path:
 
 
 def _snapshot(folder: Path) -> dict[str, bytes]:
-    return {p.name: p.read_bytes() for p in sorted(folder.iterdir())}
+    return {p.name: p.read_bytes() for p in sorted(folder.iterdir()) if p.is_file()}
 
 
 def test_build_writes_every_output_with_the_caution(built: Path) -> None:
@@ -68,7 +69,7 @@ def test_input_error_exits_2_with_one_line_and_writes_nothing(tmp_path: Path, ca
     assert not out.exists()
 
 
-def test_failed_design_exits_1_and_keeps_earlier_outputs(
+def test_failed_strip_exits_1_issues_the_others_and_keeps_earlier_outputs(
     built: Path, tmp_path: Path, capsys
 ) -> None:
     out = tmp_path / "out"
@@ -82,7 +83,32 @@ def test_failed_design_exits_1_and_keeps_earlier_outputs(
     failing.write_text(text, encoding="utf-8")
     assert main(["build", str(failing), "--out", str(out)]) == 1
     err = capsys.readouterr().err
-    assert "strip S1" in err and "no files were written" in err and "Traceback" not in err
+    assert "strip S1" in err and "1 of 2 strip(s) cannot be designed" in err
+    assert "Traceback" not in err
+    assert _snapshot(out / "rev-P1") == before  # the earlier issue is kept, byte for byte
+    now = _snapshot(out)
+    assert f"{PID}-S1.png" not in now and f"{PID}-S2.png" in now  # nothing for S1
+    assert b"Not detailed,S1," in now[f"{PID}-schedule.csv"]
+
+
+def test_when_no_strip_can_be_designed_nothing_is_written(
+    built: Path, tmp_path: Path, capsys
+) -> None:
+    out = tmp_path / "out"
+    shutil.copytree(built, out)
+    before = _snapshot(out)
+    # Every strip gets a 9 m span in a 150 mm slab (EN 1992-1-1 7.4.2 and 6.1 cannot be met).
+    text = re.sub(r"thickness_mm: \d+", "thickness_mm: 150", SAMPLE.read_text(encoding="utf-8"))
+    text = text.replace("spans_mm: [", "spans_mm: [9000, ")
+    text = text.replace("supports_mm: [0, ", "supports_mm: [-9000, 0, ").replace(
+        "support_widths_mm: [215, ", "support_widths_mm: [215, 215, "
+    )
+    failing = tmp_path / "failing.yaml"
+    failing.write_text(text, encoding="utf-8")
+    assert main(["build", str(failing), "--out", str(out)]) == 1
+    err = capsys.readouterr().err
+    assert "2 strip(s) cannot be designed as given: S1, S2" in err
+    assert "no files were written" in err and "Traceback" not in err
     assert _snapshot(out) == before
 
 

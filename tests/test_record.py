@@ -23,6 +23,7 @@ from detailer import CAUTION
 from detailer.codes.en1990 import PsiFactors
 from detailer.io.json_writer import (
     RecordReadError,
+    format_json,
     previous_marks,
     read_previous_marks,
     record_file_name,
@@ -185,8 +186,9 @@ def test_json_round_trip_and_byte_stable() -> None:
     raw = render_record_json(build_record(detail))
     assert raw == render_record_json(build_record(_detail(BASE_SETS)))  # rerun: same bytes
     data = json.loads(raw.decode("utf-8"))
-    again = (json.dumps(data, indent=2, ensure_ascii=False) + "\n").encode("utf-8")
+    again = format_json(data).encode("utf-8")
     assert again == raw  # what is read back writes the same bytes
+    assert json.loads(again) == data
     assert data == record_to_jsonable(build_record(detail))
     assert raw.endswith(b"}\n") and not raw.endswith(b"\n\n")
     assert "Harbour View – level 1".encode() in raw  # ensure_ascii=False

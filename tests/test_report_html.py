@@ -2,10 +2,10 @@
 
 Sources: the HTML syntax (WHATWG HTML, void elements; parsed with Python's ``html.parser``);
 EN 1990:2002, Table A1.2(B) with the UK NA (gamma_G = 1.35, gamma_Q = 1.5, xi = 0.925) and
-Table A1.1 (psi_0 = 0.7 for category A); the UK convention of drawing the bending-moment
-diagram on the tension side, sagging below the axis (common practice). The main check is an
-invariant: every number the report keys with ``data-key`` equals the value in the record JSON
-written from the same build (``<project-id>-record.json``), formatted as that file writes it.
+Table A1.1 (psi_0 = 0.7 for category A). The main check is an invariant: every number the
+report keys with ``data-key`` equals the value in the record JSON written from the same issue
+(``<project-id>-record.json``), formatted as that file writes it. The plots themselves are
+checked in ``tests/test_report_plots.py``.
 """
 
 from __future__ import annotations
@@ -20,16 +20,13 @@ from dataclasses import dataclass, field
 from html.parser import HTMLParser
 from pathlib import Path
 
-import numpy as np
 import pytest
 
 from detailer import CAUTION
-from detailer.build import build_outputs
+from detailer.build import make_issue
+from detailer.io.json_writer import render_record_json
 from detailer.project import load_project, parse_project
-from detailer.record import build_record
-from detailer.report import plots, render_report, report_file_name
-
-pytest.importorskip("matplotlib")  # the report's plots (the "report" extra)
+from detailer.report import render_report, report_file_name
 
 ROOT = Path(__file__).resolve().parents[1]
 SAMPLE = ROOT / "sample_projects" / "quayside-terrace.yaml"
@@ -48,11 +45,13 @@ class Built:
 
 
 def _render(project, name: str, sha: str) -> tuple[bytes, dict, object]:
-    result = build_outputs(project)
-    record = build_record(result.detail)
-    record_json = json.loads(dict(result.files)[f"{project.id}-record.json"])
-    html = render_report(result.detail, record, result.schedule, input_name=name, input_sha256=sha)
-    return html, record_json, result
+    """The report and the record JSON of one issue, as the build writes them."""
+    issue = make_issue(project)
+    record_json = json.loads(render_record_json(issue.record))
+    html = render_report(
+        issue.detail, issue.record, issue.schedule, input_name=name, input_sha256=sha
+    )
+    return html, record_json, issue
 
 
 @pytest.fixture(scope="module")
@@ -295,11 +294,13 @@ def test_every_strip_has_its_three_plots(sample: Built):
             f"{pid}/{sid}/{kind}" for kind in ("moment", "shear", "curtailment")
         )
     assert sum(len(v) for v in col.plots.values()) == 3 * sample.n_strips
-    # Each plot has drawn paths (curves, not an empty frame) and text labels.
+    # Each plot has its curves (not an empty frame), an accessible name and text labels.
     svgs = re.findall(r"<svg.*?</svg>", sample.html.decode("utf-8"), flags=re.DOTALL)
     assert len(svgs) == 3 * sample.n_strips
     for svg in svgs:
-        assert svg.count("<path") > 20 and "<text" in svg
+        curves = re.findall(r'<polyline data-series="[a-z_]+" points="([^"]+)"', svg)
+        assert len(curves) >= 2 and all(len(pts.split()) > 5 for pts in curves)
+        assert svg.count("<text") > 20 and 'role="img"' in svg and "<title>Strip " in svg
 
 
 def test_numbers_equal_the_record(sample: Built):
@@ -377,10 +378,10 @@ def test_same_bytes_in_another_process(sample: Built):
     order differs), writes the same bytes."""
     code = (
         "import hashlib, sys; from pathlib import Path\n"
-        "from detailer.project import load_project; from detailer.build import build_outputs\n"
-        "from detailer.record import build_record; from detailer.report import render_report\n"
-        f"p = load_project({str(SAMPLE)!r}); r = build_outputs(p)\n"
-        "h = render_report(r.detail, build_record(r.detail), r.schedule, "
+        "from detailer.project import load_project; from detailer.build import make_issue\n"
+        "from detailer.report import render_report\n"
+        f"p = load_project({str(SAMPLE)!r}); r = make_issue(p)\n"
+        "h = render_report(r.detail, r.record, r.schedule, "
         f"input_name={SAMPLE.name!r}, input_sha256={sample.input_sha256!r})\n"
         "sys.stdout.write(hashlib.sha256(h).hexdigest())\n"
     )
@@ -401,37 +402,52 @@ def test_report_file_name():
     assert report_file_name("quayside-terrace-l2") == "quayside-terrace-l2-calcs.html"
 
 
-# ---------------------------------------------------------------- plots: sign convention
+# ------------------------------------------------------- strips not detailed in this issue
+
+NOT_DETAILED = (
+    ("S9", "span 1: A_s,req 2410 mm2/m > A_s,max; deepen the slab"),
+    ("Süd & <Nord>", "deflection: l/d 41.2 > 30.1 (7.4.2)"),
+)
 
 
-def _stroked_paths(svg: str, colour: str) -> list[np.ndarray]:
-    """(n, 2) vertex arrays of the paths stroked in ``colour``."""
-    out = []
-    for d, style in re.findall(r'<path d="([^"]+)"[^>]*?style="([^"]+)"', svg):
-        if f"stroke: {colour}" in style:
-            nums = [float(v) for v in re.findall(r"-?\d+(?:\.\d+)?", d)]
-            out.append(np.array(nums[: len(nums) // 2 * 2]).reshape(-1, 2))
-    return out
+def test_strips_not_detailed_are_listed_near_the_top():
+    """An incomplete issue says so before any calculation (common practice: an issue that
+    leaves members out states it at the top), with each strip's id and reason as given."""
+    project = load_project(SAMPLE)
+    issue = make_issue(project)
+    args = (issue.detail, issue.record, issue.schedule)
+    plain = render_report(*args, input_name="x", input_sha256="0" * 64)
+    html = render_report(*args, input_name="x", input_sha256="0" * 64, not_detailed=NOT_DETAILED)
+    assert "Strips not detailed in this issue" not in plain.decode("utf-8")
+    again = render_report(*args, input_name="x", input_sha256="0" * 64, not_detailed=())
+    assert again == plain
+    text = html.decode("utf-8")
+    checker = StrictChecker()
+    checker.feed(text)
+    checker.close()
+    assert checker.errors == [] and checker.stack == []
+    start = text.index('<section class="incomplete" id="not-detailed">')
+    assert text.index("<h1>") < start < text.index('id="revisions"') < text.index('class="strip"')
+    section = text[start : text.index("</section>", start)]
+    body = _text(section.encode("utf-8"))
+    assert "Strips not detailed in this issue" in body
+    assert "This issue is incomplete." in body
+    assert "no bars on the drawing or in the bar schedule" in body
+    for sid, reason in NOT_DETAILED:
+        assert f"{sid} {reason}" in body
+    assert "Süd &amp; &lt;Nord&gt;" in section and "<Nord>" not in section
+    # The overview lists them too (after the heading), and the detailed strips keep theirs.
+    assert _text(html).count("not detailed in this issue") == 1 + len(NOT_DETAILED)
+    assert text.count('<section class="strip"') == len(project.strips)
 
 
-def test_sagging_is_drawn_below_the_axis():
-    """UK convention (common practice): bending moments on the tension side, so a sagging
-    span moment lies below the zero line and a hogging one above it (SVG y grows down)."""
-    x = np.linspace(0.0, 5000.0, 51)
-    sag = 10.0 * np.sin(np.pi * x / 5000.0)  # sagging +, peak 10 kNm/m
-    hog = -6.0 * np.sin(np.pi * x / 5000.0)
-    data = plots.EnvelopeData(x, sag, hog, (plots.SupportMark("A", 0.0, 0.0),))
-    svg = plots.moment_svg(data, title="t", salt="test/moment")
-    zero = [p for p in _stroked_paths(svg, "#000000") if len(p) == 2 and p[0, 1] == p[1, 1]]
-    assert zero, "no zero line"
-    y0 = zero[0][0, 1]
-    # The curve is the longest path of its colour (the legend's sample line has two points).
-    sag_path = max(_stroked_paths(svg, plots.SAGGING), key=len)
-    hog_path = max(_stroked_paths(svg, plots.HOGGING), key=len)
-    assert len(sag_path) > 10 and len(hog_path) > 10
-    assert sag_path[:, 1].max() > y0 + 20 and sag_path[:, 1].min() >= y0 - 0.5
-    assert hog_path[:, 1].min() < y0 - 10 and hog_path[:, 1].max() <= y0 + 0.5
-    assert 'data-plot="test/moment"' in svg and "Date" not in svg
+def test_a_strip_cannot_be_both_detailed_and_not():
+    issue = make_issue(load_project(SAMPLE))
+    with pytest.raises(ValueError, match="S1"):
+        render_report(
+            issue.detail, issue.record, issue.schedule, input_name="x", input_sha256="0" * 64,
+            not_detailed=(("S1", "x"),),
+        )  # fmt: skip
 
 
 # ----------------------------------------------------------- another project, other branches

@@ -29,8 +29,6 @@ from detailer.report import render_report
 from detailer.revisions import RevisionDiff, compare_records, render_changes, view_of
 from tests.test_report_html import StrictChecker
 
-pytest.importorskip("matplotlib")  # the report's plots (the "report" extra)
-
 SAMPLE = Path(__file__).resolve().parents[1] / "sample_projects" / "quayside-terrace.yaml"
 SPANS = "spans_mm: [4200, 5600, 5100, 4600]"
 ARROW = " → "

@@ -3,7 +3,9 @@
 Layout (every line is a CSV record, so the whole file reads back with Python's ``csv``):
 
 1. header lines, two cells each: ``Bar schedule`` / standard, project, title, one ``Member ref``
-   line per strip (id and description), drawing, revision, date, the caution line;
+   line per strip (id and description), for an incomplete issue one ``Not detailed`` line per
+   strip left out (id and reason) and an ``Incomplete`` line, then drawing, revision, date,
+   the caution line;
 2. an empty line, then the column header row and one row per mark per member;
 3. for code 99 rows, one ``Sketch`` line per mark naming its dimensioned sketch;
 4. an empty line, then the summary block: a ``Summary`` line, its column header row, one
@@ -26,6 +28,7 @@ __all__ = [
 
 import csv
 import io
+from collections.abc import Sequence
 from pathlib import Path
 from typing import Final
 
@@ -106,8 +109,12 @@ def _row_cells(row: ScheduleRow) -> list[str]:
     ]
 
 
-def schedule_csv_lines(schedule: Schedule, project: Project) -> list[list[str]]:
-    """The CSV records of the schedule, as lists of cells (see the module docstring)."""
+def schedule_csv_lines(
+    schedule: Schedule, project: Project, not_detailed: Sequence[tuple[str, str]] = ()
+) -> list[list[str]]:
+    """The CSV records of the schedule, as lists of cells (see the module docstring).
+    ``not_detailed``: (strip id, reason) of strips left out of an incomplete issue, listed in
+    the header so that nobody takes the schedule for the whole floor."""
     out: list[list[str]] = [
         ["Bar schedule", STANDARD],
         ["Project", project.id],
@@ -119,6 +126,9 @@ def schedule_csv_lines(schedule: Schedule, project: Project) -> list[list[str]]:
             if strip.description
             else ["Member ref", strip.id]
         )
+    out += [["Not detailed", strip_id, reason] for strip_id, reason in not_detailed]
+    if not_detailed:
+        out.append(["Incomplete", f"{len(not_detailed)} strip(s) not detailed: not scheduled"])
     out += [
         ["Drawing", project.drawing_ref],
         ["Revision", project.revision],
@@ -156,11 +166,13 @@ def schedule_csv_lines(schedule: Schedule, project: Project) -> list[list[str]]:
     return out
 
 
-def render_schedule_csv(schedule: Schedule, project: Project) -> bytes:
+def render_schedule_csv(
+    schedule: Schedule, project: Project, not_detailed: Sequence[tuple[str, str]] = ()
+) -> bytes:
     """The schedule CSV as UTF-8 bytes with ``\\n`` line ends."""
     buffer = io.StringIO()
     writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerows(schedule_csv_lines(schedule, project))
+    writer.writerows(schedule_csv_lines(schedule, project, not_detailed))
     return buffer.getvalue().encode("utf-8")
 
 

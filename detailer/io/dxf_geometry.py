@@ -20,6 +20,7 @@ __all__ = [
     "Dim",
     "DimTarget",
     "Dot",
+    "DotRow",
     "Hatch",
     "Line",
     "Poly",
@@ -114,6 +115,24 @@ class Dot:
     y: float
     diameter: float
     xdata: Fields = ()
+
+
+@dataclass(frozen=True, slots=True)
+class DotRow:
+    """Bars seen end-on at a regular pitch: ``count`` discs from ``x0`` every ``pitch``
+    (drawn as one block inserted in a row, a MINSERT: one entity for the whole row)."""
+
+    layer: str
+    x0: float
+    y: float
+    pitch: float
+    count: int
+    diameter: float
+    xdata: Fields = ()
+
+    @property
+    def x1(self) -> float:
+        return self.x0 + (self.count - 1) * self.pitch
 
 
 @dataclass(frozen=True, slots=True)

@@ -24,6 +24,7 @@ from detailer.io.dxf_geometry import (
     Circle,
     Dim,
     Dot,
+    DotRow,
     Fields,
     Hatch,
     Line,
@@ -56,6 +57,7 @@ class View:
     polys: list[Poly] = field(default_factory=list)
     lines: list[Line] = field(default_factory=list)
     dots: list[Dot] = field(default_factory=list)
+    dot_rows: list[DotRow] = field(default_factory=list)
     circles: list[Circle] = field(default_factory=list)
     texts: list[Text] = field(default_factory=list)
     hatches: list[Hatch] = field(default_factory=list)
@@ -72,6 +74,9 @@ class View:
         for d in self.dots:
             r = d.diameter / 2
             boxes.append(Box(d.x - r, d.y - r, d.x + r, d.y + r))
+        for row in self.dot_rows:
+            r = row.diameter / 2
+            boxes.append(Box(row.x0 - r, row.y - r, row.x1 + r, row.y + r))
         for c in self.circles:
             boxes.append(Box(c.x - c.radius, c.y - c.radius, c.x + c.radius, c.y + c.radius))
         for t in self.texts:
@@ -219,8 +224,9 @@ def _section(
             xs = [x for x in xs if x <= b.x_end_mm + 1.0] or [b.x_start_mm]
             dia = max(float(b.phi_mm), 0.35 * s)
             lay = st.BARS_DISTRIBUTION_LAYER.name
-            for x in xs:
-                v.dots.append(Dot(lay, x, y, dia, bar_fields(b, "section")))
+            v.dot_rows.append(
+                DotRow(lay, xs[0], y, float(b.spacing_mm), len(xs), dia, bar_fields(b, "section"))
+            )
             pref = _at(b, 0.7)
             cands = sorted(xs, key=lambda x: (abs(x - pref), x))[:12]
             anchors.append(

@@ -18,6 +18,7 @@ __all__ = [
     "DrawnDimension",
     "DrawnLabel",
     "LayoutReadback",
+    "merge_readbacks",
     "parse_callout",
     "read_layout",
     "readback",
@@ -25,7 +26,8 @@ __all__ = [
 
 import io
 import re
-from dataclasses import dataclass, replace
+from collections.abc import Sequence
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 import ezdxf
@@ -132,15 +134,34 @@ class LayoutReadback:
     labels: tuple[DrawnLabel, ...]
     dimensions: tuple[DrawnDimension, ...]
 
+    _label_index: dict | None = field(default=None, init=False, repr=False, compare=False)
+
     def bars_of(self, strip_id: str) -> tuple[DrawnBar, ...]:
         return tuple(b for b in self.bars if b.strip_id == strip_id)
 
     def labels_of(self, strip_id: str, set_id: str, view: str) -> tuple[DrawnLabel, ...]:
-        return tuple(
-            lab
-            for lab in self.labels
-            if lab.strip_id == strip_id and lab.set_id == set_id and lab.view == view
-        )
+        """The labels of one bar set in one view, in drawing order (indexed once: a floor's
+        drawing has tens of thousands of labels)."""
+        index = self._label_index
+        if index is None:
+            index = {}
+            for lab in self.labels:
+                index.setdefault((lab.strip_id, lab.set_id, lab.view), []).append(lab)
+            index = {k: tuple(v) for k, v in index.items()}
+            object.__setattr__(self, "_label_index", index)
+        return index.get((strip_id, set_id, view), ())
+
+
+def merge_readbacks(parts: Sequence[LayoutReadback], source: str = "") -> LayoutReadback:
+    """One readback of a drawing split into several files (their sheets and bars together)."""
+    return LayoutReadback(
+        source or " + ".join(p.source for p in parts),
+        tuple(n for p in parts for n in p.layouts),
+        tuple(i for p in parts for i in p.strip_ids),
+        tuple(b for p in parts for b in p.bars),
+        tuple(lab for p in parts for lab in p.labels),
+        tuple(d for p in parts for d in p.dimensions),
+    )
 
 
 def read_layout(source: str | Path | bytes) -> LayoutReadback:
@@ -250,6 +271,8 @@ def _ys(entity) -> list[float]:
     t = entity.dxftype()
     if t == "LWPOLYLINE":
         return [float(p[1]) for p in entity.get_points("xy")]
+    if t == "INSERT":
+        return [float(entity.dxf.insert[1])]
     if t in ("TEXT", "MTEXT"):
         return [_position(entity)[1]]
     return []
@@ -276,6 +299,11 @@ def _bar(key: tuple[str, str], items) -> DrawnBar:
     xs: list[float] = []
     length = None
     for _, e in section:
+        if e.dxftype() == "INSERT":  # a row of discs: its first and last bar
+            x0 = float(e.dxf.insert[0])
+            n = int(e.dxf.get("column_count", 1))
+            xs += [x0, x0 + (n - 1) * float(e.dxf.get("column_spacing", 0.0))]
+            continue
         if e.dxftype() != "LWPOLYLINE":
             continue
         pts = list(e.get_points("xyb"))

@@ -26,6 +26,11 @@ A damaged file is read with ezdxf's recovery only when that is safe: a file cut 
 closing EOF) or one whose recovery had to replace values is refused; repairs of structure
 alone are listed in ``GeneralArrangement.notes`` for the caller to show.
 
+Limits (a sign of the wrong file, a damaged entity or wrong units, each refused with a
+message): the file at most ``MAX_DXF_BYTES``, at most ``MAX_LAYER_ENTITIES`` entities on a GA
+layer, every coordinate a number within 1e11 mm of the origin. ezdxf's own log lines are kept
+off stderr while reading.
+
 End conditions are not decided here: the result says where the slab ends and how far it
 overhangs; whether an end at a support is pinned or monolithic comes from the project file.
 """
@@ -49,7 +54,10 @@ __all__ = [
     "read_general_arrangement",
 ]
 
+import contextlib
 import difflib
+import logging
+import math
 import os
 from collections.abc import Iterator
 
@@ -96,6 +104,13 @@ _POLYLINES = {"LWPOLYLINE", "POLYLINE"}
 _FLATTEN_MM = 0.5  # chord error when arcs of a polyline are turned into straight pieces
 _CLOSE_MM = 1.0  # a polyline whose ends meet this closely is closed (snapped by eye)
 _MAX_BLOCK_DEPTH = 16
+#: Largest DXF read: a GA of a large floor is a few MiB; ezdxf takes about a minute per 50 MiB.
+MAX_DXF_BYTES = 64 * 2**20
+#: Most entities on one GA layer (2000 strips with their id texts fit easily).
+MAX_LAYER_ENTITIES = 5000
+#: Farthest a point may lie from the drawing origin: beyond every national grid or UTM
+#: coordinate (under 1e10 mm), so farther means a damaged entity or wrong units.
+_MAX_COORD_MM = 1.0e11
 _DEFAULT_LAYERS = GALayers()
 _DEFAULT_TOLERANCES = GATolerances()
 
@@ -114,10 +129,11 @@ def read_general_arrangement(
     and the entity handle) for every problem with the file or the drawing.
     """
     file = os.fspath(path)
-    doc, notes = _open(file)
-    units, mm_per_unit, from_header = _units(doc, file, units_if_missing)
-    drawn = _collect(doc, file, layers, mm_per_unit)
-    _check_scale(drawn, units)
+    with _quiet_ezdxf():
+        doc, notes = _open(file)
+        units, mm_per_unit, from_header = _units(doc, file, units_if_missing)
+        drawn = _collect(doc, file, layers, mm_per_unit)
+    _check_scale(drawn, units, units_if_missing if from_header else None)
     strips = arrange(drawn, tolerances)
     return GeneralArrangement(
         file=file, units=units, units_from_header=from_header, strips=strips, notes=notes
@@ -125,15 +141,40 @@ def read_general_arrangement(
 
 
 # -- opening -----------------------------------------------------------------------------------
+@contextlib.contextmanager
+def _quiet_ezdxf() -> Iterator[None]:
+    """Keep ezdxf's log lines (e.g. what recovery repaired) off the user's stderr: every
+    problem is reported once, as our own one-line error, and repairs go into ``notes``."""
+    logger = logging.getLogger("ezdxf")
+    handler = logging.NullHandler()
+    propagate = logger.propagate
+    logger.addHandler(handler)
+    logger.propagate = False
+    try:
+        yield
+    finally:
+        logger.removeHandler(handler)
+        logger.propagate = propagate
+
+
 def _open(file: str) -> tuple[Drawing, tuple[str, ...]]:
     """The drawing, and notes on what recovery repaired (empty for a sound file)."""
+    if os.path.isdir(file):
+        raise GAFileError(file, "this is a folder, not a file", fix="give the GA .dxf file")
     try:
         with open(file, "rb") as fh:
             head = fh.read(32)
+            size = os.fstat(fh.fileno()).st_size
     except OSError as exc:
         raise GAFileError(
             file, f"cannot read the file: {exc.strerror or exc}", fix="check the path and name"
         ) from None
+    if size > MAX_DXF_BYTES:
+        raise GAFileError(
+            file,
+            f"the file is {size / 2**20:.0f} MiB, more than the {MAX_DXF_BYTES >> 20} MiB read",
+            fix="save a DXF holding only the slab, supports and strips layers",
+        )
     if head.startswith(b"AC10"):
         raise GAFileError(
             file, "this is a DWG drawing, not a DXF", fix="save the GA as DXF from the CAD program"
@@ -210,20 +251,30 @@ def _units(doc: Drawing, file: str, units_if_missing: str | None) -> tuple[str, 
     return (*_UNITS_BY_NAME[units_if_missing], False)
 
 
-def _check_scale(drawn: DrawnGA, units: str) -> None:
-    """A slab under 1 m or over 1 km across means the units are wrong, not the slab."""
+def _check_scale(drawn: DrawnGA, units: str, file_units: str | None = None) -> None:
+    """A slab under 1 m or over 1 km across means the units are wrong, not the slab.
+    ``file_units``: the project file's units, when the header's were used instead."""
     if not drawn.outlines:
         return  # reported by arrange()
     xs = [x for p in drawn.outlines for x, _ in p.points_mm]
     ys = [y for p in drawn.outlines for _, y in p.points_mm]
     size_mm = max(max(xs) - min(xs), max(ys) - min(ys))
     if not 1000.0 <= size_mm <= 1.0e6:
+        if file_units is not None and file_units != units:
+            read_in = (
+                f"{units} (the DXF header's $INSUNITS; units: {file_units} in the project file "
+                "is used only when the header states none)"
+            )
+            fix = "save the GA with the drawing units it was drawn in"
+        else:
+            read_in = units
+            fix = "check the drawing units ($INSUNITS, or units: in the project file)"
         raise GAUnitsError(
             drawn.file,
-            f"the slab outline is {size_mm:.4g} mm across when read in {units}",
+            f"the slab outline is {size_mm:.4g} mm across when read in {read_in}",
             layer=drawn.layers.slab,
             handle=drawn.outlines[0].handle,
-            fix="check the drawing units ($INSUNITS, or units: in the project file)",
+            fix=fix,
         )
 
 
@@ -282,6 +333,13 @@ def _collect(doc: Drawing, file: str, layers: GALayers, k: float) -> DrawnGA:
         if name.casefold() not in names or not found[role]:
             others = {n.casefold() for n in roles.values()}
             raise _layer_error(file, role, name, names, used - others)
+        if len(found[role]) > MAX_LAYER_ENTITIES:
+            raise GALayerError(
+                file,
+                f"{len(found[role])} entities, more than the {MAX_LAYER_ENTITIES} read on a layer",
+                layer=name,
+                fix="keep only the general arrangement on this layer (hatches, notes elsewhere)",
+            )
     reader = _Reader(file, k)
     outlines: list[DrawnPolyline] = []
     for entity, handle in found["slab"]:
@@ -296,7 +354,7 @@ def _collect(doc: Drawing, file: str, layers: GALayers, k: float) -> DrawnGA:
     strip_lines, strip_bands = reader.lines_and_polylines(
         found["strips"], layers.strips, GAStripError, "a strip"
     )
-    texts = [reader.text(e, h) for e, h in found["strips"] if e.dxftype() in _TEXT]
+    texts = [reader.text(e, h, layers.strips) for e, h in found["strips"] if e.dxftype() in _TEXT]
     return DrawnGA(
         file=file,
         layers=layers,
@@ -353,8 +411,36 @@ class _Reader:
         self.file = file
         self.k = mm_per_unit
 
-    def xy(self, v) -> XY:
-        return (float(v[0]) * self.k, float(v[1]) * self.k)
+    def xy(self, v, entity, handle: str, layer: str, error: type[GAError]) -> XY:
+        """A point in mm; a NaN or a point far beyond any site is a damaged entity."""
+        x, y = float(v[0]), float(v[1])
+        if not (math.isfinite(x) and math.isfinite(y)):
+            raise error(
+                self.file,
+                f"{entity.dxftype()} has a coordinate that is not a number ({x:g}, {y:g})",
+                layer=layer,
+                handle=handle,
+                fix="the file is damaged: audit it in the CAD program, or redraw the entity",
+            )
+        far = max(abs(x), abs(y)) * self.k
+        if far > _MAX_COORD_MM:
+            raise error(
+                self.file,
+                f"{entity.dxftype()} lies {far:.3g} mm from the drawing origin, beyond any site",
+                layer=layer,
+                handle=handle,
+                fix="move the drawing near (0, 0), or check the entity and the drawing units",
+            )
+        return (x * self.k, y * self.k)
+
+    def unreadable(self, exc: Exception, handle, layer, error: type[GAError]) -> GAError:
+        return error(
+            self.file,
+            f"cannot read the polyline: {_first_line(exc)}",
+            layer=layer,
+            handle=handle,
+            fix="redraw it as a closed polyline",
+        )
 
     def wrong(self, entity, handle, layer, error: type[GAError], what: str) -> GAError:
         return error(
@@ -370,14 +456,17 @@ class _Reader:
             raise self.wrong(entity, handle, layer, error, "a polyline")
         try:
             path = make_path(entity)
-            points = [self.xy(v) for v in path.flattening(distance=_FLATTEN_MM / self.k)]
+            control = list(path.control_vertices())
         except Exception as exc:  # noqa: BLE001 - e.g. a polyline without vertices
-            raise error(
-                self.file,
-                f"cannot read the polyline: {_first_line(exc)}",
-                layer=layer,
-                handle=handle,
-            ) from None
+            raise self.unreadable(exc, handle, layer, error) from None
+        # Check the vertices before flattening: an arc of absurd radius would never finish.
+        corners = [self.xy(v, entity, handle, layer, error) for v in control]
+        extent = max((_dist(corners[0], c) for c in corners), default=0.0)
+        try:
+            flat = list(path.flattening(distance=max(_FLATTEN_MM, 1e-7 * extent) / self.k))
+        except Exception as exc:  # noqa: BLE001
+            raise self.unreadable(exc, handle, layer, error) from None
+        points = [self.xy(v, entity, handle, layer, error) for v in flat]
         closed = bool(entity.closed if entity.dxftype() == "LWPOLYLINE" else entity.is_closed)
         if not closed and len(points) >= 4 and _dist(points[0], points[-1]) <= _CLOSE_MM:
             closed = True
@@ -391,7 +480,9 @@ class _Reader:
         for entity, handle in entities:
             kind = entity.dxftype()
             if kind == "LINE":
-                lines.append(DrawnLine(handle, self.xy(entity.dxf.start), self.xy(entity.dxf.end)))
+                a = self.xy(entity.dxf.start, entity, handle, layer, error)
+                b = self.xy(entity.dxf.end, entity, handle, layer, error)
+                lines.append(DrawnLine(handle, a, b))
             elif kind in _POLYLINES:
                 poly = self.polyline(entity, handle, layer, error)
                 if not poly.closed and len(poly.points_mm) == 2:
@@ -403,14 +494,17 @@ class _Reader:
                 raise self.wrong(entity, handle, layer, error, what)
         return tuple(lines), tuple(polylines)
 
-    def text(self, entity, handle) -> DrawnText:
+    def text(self, entity, handle, layer: str) -> DrawnText:
         if entity.dxftype() == "MTEXT":
-            return DrawnText(handle, entity.plain_text(split=False), self.xy(entity.dxf.insert))
+            at = self.xy(entity.dxf.insert, entity, handle, layer, GAStripIdError)
+            return DrawnText(handle, entity.plain_text(split=False), at)
         align, p1, p2 = entity.get_placement()
         if align in (TextEntityAlignment.ALIGNED, TextEntityAlignment.FIT) and p2 is not None:
             p1 = (p1 + p2) / 2
         at = entity.ocs().to_wcs(p1)  # TEXT points are in its object coordinate system
-        return DrawnText(handle, entity.dxf.text, self.xy(at))
+        return DrawnText(
+            handle, entity.dxf.text, self.xy(at, entity, handle, layer, GAStripIdError)
+        )
 
 
 def _dist(a: XY, b: XY) -> float:

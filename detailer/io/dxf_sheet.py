@@ -30,9 +30,11 @@ import textwrap
 from dataclasses import dataclass
 
 from detailer import CAUTION, __version__
+from detailer.curtailment import StripGeometry
 from detailer.io.dxf_geometry import Box
-from detailer.io.dxf_layout import StripPlan, plan_strip
+from detailer.io.dxf_layout import StripPlan, View, plan_strip
 from detailer.io.dxf_revision import RevisionTable, revision_table, table_height_mm
+from detailer.io.dxf_views import cross_section
 from detailer.layout import BarRole, StripDetail
 from detailer.model import Project
 from detailer.record import RevisionRecord
@@ -84,9 +86,8 @@ class SheetPlan:
     revision_table: RevisionTable | None = None  # on the title block; None: no revisions
 
 
-def _fits_detail(plan: StripPlan) -> bool:
-    b = plan.detail_box
-    s = plan.detail_scale
+def _detail_box_fits(b: Box, s: int) -> bool:
+    """The cross-section at 1:``s`` fits the right-hand column."""
     return b.width / s <= COLUMN_MM - 10.0 and b.height / s <= DETAIL_MAX_H_MM
 
 
@@ -123,17 +124,25 @@ def choose_sheet(
         return plan_strip(sd, scale, ds, revision=letter, changed_set_ids=changed)
 
     detail_scale = DETAIL_SCALES[-1]
-    for ds in DETAIL_SCALES:
-        if _fits_detail(plan_at(MAIN_SCALES[-1], ds)):
+    for ds in DETAIL_SCALES:  # the cross-section alone decides its scale
+        view = View()
+        cross_section(sd, ds, view)
+        if _detail_box_fits(view.box(), ds):
             detail_scale = ds
             break
+    # The main view is at least as wide as the slab: scales at which the slab alone
+    # overflows the sheet need no trial layout.
+    geom = StripGeometry.of(sd.strip)
+    slab_mm = geom.slab_right_mm - geom.slab_left_mm
     n_notes = notes_lines_count(general_notes(project, sd))
     options = [(A2, s) for s in MAIN_SCALES if s <= A2_SMALLEST_SCALE]
     options += [(A1, s) for s in MAIN_SCALES + LONG_STRIP_SCALES]
     chosen = None
     for sheet, s in options:
-        plan = plan_at(s, detail_scale)
         area = _main_area(sheet)
+        if slab_mm / s > area.width:
+            continue
+        plan = plan_at(s, detail_scale)
         column_h = DETAIL_MAX_H_MM + 14.0 + n_notes * NOTE_LINE_MM + TITLE_BLOCK_H_MM
         column_h += table_height_mm(revisions, COLUMN_MM)
         if (

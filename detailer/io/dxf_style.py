@@ -117,6 +117,8 @@ CHAR_WIDTH_FACTOR: Final = 0.9
 
 #: Our registered XDATA application id.
 APPID: Final = "SLABWRIGHT"
+#: Name prefix of the disc blocks a row of bars seen end-on is drawn with ("SW-DOT-17_5").
+DOT_BLOCK_PREFIX: Final = "SW-DOT-"
 
 
 @dataclass(frozen=True, slots=True)

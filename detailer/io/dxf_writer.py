@@ -21,12 +21,18 @@ header metadata, handles in creation order, numbers formatted with fixed decimal
 
 from __future__ import annotations
 
-__all__ = ["build_layout", "layout_name", "write_layout", "write_layout_file"]
+__all__ = [
+    "build_layout",
+    "document_bytes",
+    "layout_name",
+    "sheet_plans",
+    "write_layout",
+    "write_layout_file",
+]
 
 import contextlib
-import io
 import re
-from collections.abc import Iterable, Iterator
+from collections.abc import Iterable, Iterator, Sequence
 from pathlib import Path
 
 import ezdxf
@@ -37,6 +43,7 @@ from ezdxf.lldxf import const
 
 from detailer.io import dxf_style as st
 from detailer.io.atomic import write_output
+from detailer.io.dxf_dimension import add_linear_dimension
 from detailer.io.dxf_geometry import Fields
 from detailer.io.dxf_layout import View
 from detailer.io.dxf_revision import (
@@ -55,6 +62,7 @@ from detailer.io.dxf_sheet import (
     title_fields,
     wrap_notes,
 )
+from detailer.io.dxf_text import document_text
 from detailer.layout import ProjectDetail
 from detailer.record import RevisionRecord
 
@@ -91,10 +99,14 @@ def write_layout(
     marker of the newest revision beside each; set ids are unique within a strip only).
     Without them the sheets have neither.
     """
-    stream = io.StringIO()
+    return document_bytes(build_layout(detail, revisions, changed_set_ids))
+
+
+def document_bytes(doc: Drawing, *, workers: int = 0) -> bytes:
+    """The DXF file of a layout document built by :func:`build_layout` (fixed metadata),
+    written over ``workers`` processes for a large drawing (the same bytes)."""
     with _fixed_metadata():
-        build_layout(detail, revisions, changed_set_ids).write(stream)
-    return stream.getvalue().encode("utf-8")
+        return document_text(doc, workers).encode("utf-8")
 
 
 def write_layout_file(
@@ -111,24 +123,36 @@ def build_layout(
     detail: ProjectDetail,
     revisions: Iterable[RevisionRecord] = (),
     changed_set_ids: Iterable[tuple[str, str]] = frozenset(),
+    *,
+    plans: Sequence[SheetPlan] | None = None,
+    part: range | None = None,
 ) -> Drawing:
-    """The ezdxf document of the layout drawing (see the module docstring)."""
+    """The ezdxf document of the layout drawing (see the module docstring). ``plans``: the
+    sheets of the strips, in strip order, when already chosen (:func:`sheet_plans`);
+    ``part``: the indices of the strips this document holds when the drawing is split into
+    several files (sheets keep their numbers in the whole set), all of them when None."""
     project = detail.project
     history = tuple(revisions)
     changed = frozenset(changed_set_ids)
     for pair in changed:
         if not (isinstance(pair, tuple) and len(pair) == 2):
             raise ValueError(f"changed_set_ids holds (strip id, set id) pairs, not {pair!r}")
-    plans = [
-        choose_sheet(project, sd, revisions=history, changed_set_ids=changed)
-        for sd in detail.strips
-    ]
-    doc = ezdxf.new("R2013", setup=False, units=units.MM)
+    chosen = part if part is not None else range(len(detail.strips))
+    strips = [detail.strips[i] for i in chosen]
+    if plans is None:
+        plans = [
+            choose_sheet(project, sd, revisions=history, changed_set_ids=changed) for sd in strips
+        ]
+    elif len(plans) != len(strips):
+        raise ValueError(f"{len(plans)} sheet plans for {len(strips)} strips")
+    plans = list(plans)
+    with _fixed_metadata():  # ezdxf stamps the creation time into the document when made
+        doc = ezdxf.new("R2013", setup=False, units=units.MM)
     _setup(doc, plans)
     msp = doc.modelspace()
     y_top = 0.0
     names: set[str] = set()
-    for index, (sd, sp) in enumerate(zip(detail.strips, plans), start=1):
+    for index, sd, sp in zip((i + 1 for i in chosen), strips, plans, strict=True):
         plan = sp.plan
         dy = y_top - plan.main_box.y1
         _emit(msp, plan.main, 0.0, dy)
@@ -141,11 +165,24 @@ def build_layout(
         names.add(name)
         _sheet(doc, name, project, sd, sp, (0.0, dy), (ddx, ddy), index, len(detail.strips))
         y_top = dy + min(plan.main_box.y0, ddy - dy + plan.detail_box.y0) - REGION_GAP_MM
-    if detail.strips:
-        doc.layouts.set_active_layout(layout_name(detail.strips[0].strip.id))
+    if strips:
+        doc.layouts.set_active_layout(layout_name(strips[0].strip.id))
         doc.layouts.delete("Layout1")
     _stable_classes(doc)
     return doc
+
+
+def sheet_plans(
+    detail: ProjectDetail,
+    revisions: Iterable[RevisionRecord] = (),
+    changed_set_ids: Iterable[tuple[str, str]] = frozenset(),
+) -> list[SheetPlan]:
+    """The sheet of every strip, as :func:`build_layout` chooses them (pure, per strip)."""
+    history, changed = tuple(revisions), frozenset(changed_set_ids)
+    return [
+        choose_sheet(detail.project, sd, revisions=history, changed_set_ids=changed)
+        for sd in detail.strips
+    ]
 
 
 def _stable_classes(doc: Drawing) -> None:
@@ -215,6 +252,22 @@ def _xdata(entity, fields: Fields) -> None:
         entity.set_xdata(st.APPID, st.xdata_tags(fields))
 
 
+def _dot_block(doc: Drawing, diameter: float) -> str:
+    """The block of a disc of ``diameter`` at the origin (made once per size): a donut, two
+    half-circle arcs of width r, on layer 0 so that it takes the colour of where it is put."""
+    name = f"{st.DOT_BLOCK_PREFIX}{diameter:.1f}".replace(".", "_")
+    if name not in doc.blocks:
+        r = diameter / 4
+        block = doc.blocks.new(name)
+        block.add_lwpolyline(
+            [(-r, 0.0, 1.0), (r, 0.0, 1.0)],
+            format="xyb",
+            close=True,
+            dxfattribs={"layer": "0", "const_width": 2 * r},
+        )
+    return name
+
+
 def _emit(layout, view: View, dx: float, dy: float) -> None:
     """Add the view's primitives to ``layout``, shifted by (dx, dy)."""
     for p in view.polys:
@@ -236,6 +289,14 @@ def _emit(layout, view: View, dx: float, dy: float) -> None:
             pts, format="xyb", close=True, dxfattribs=_attribs(d.layer, const_width=2 * r)
         )
         _xdata(e, d.xdata)
+    for row in view.dot_rows:  # one disc block, inserted in a row (a MINSERT)
+        name = _dot_block(layout.doc, row.diameter)
+        e = layout.add_blockref(
+            name,
+            (row.x0 + dx, row.y + dy),
+            dxfattribs=_attribs(row.layer, column_count=row.count, column_spacing=row.pitch),
+        )
+        _xdata(e, row.xdata)
     for c in view.circles:
         layout.add_circle((c.x + dx, c.y + dy), c.radius, dxfattribs=_attribs(c.layer))
     for h in view.hatches:
@@ -249,18 +310,7 @@ def _emit(layout, view: View, dx: float, dy: float) -> None:
         e.set_placement((t.x + dx, t.y + dy), align=TextEntityAlignment[t.align])
         _xdata(e, t.xdata)
     for d in view.dims:
-        dim = layout.add_linear_dim(
-            base=(d.base[0] + dx, d.base[1] + dy),
-            p1=(d.p1[0] + dx, d.p1[1] + dy),
-            p2=(d.p2[0] + dx, d.p2[1] + dy),
-            angle=d.angle,
-            dimstyle=st.dimstyle_name(d.scale),
-            dxfattribs=_attribs(st.DIMENSION_LAYER.name),
-        )
-        if d.text_at is not None:
-            dim.set_location((d.text_at[0] + dx, d.text_at[1] + dy), leader=False)
-        dim.render()
-        _xdata(dim.dimension, d.xdata)
+        _xdata(add_linear_dimension(layout, d, dx, dy), d.xdata)
 
 
 def _sheet(

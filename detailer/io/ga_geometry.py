@@ -27,6 +27,7 @@ import math
 import re
 from dataclasses import dataclass
 
+import numpy as np
 import shapely
 from shapely.geometry import LineString, Point, Polygon
 from shapely.validation import explain_validity
@@ -112,7 +113,8 @@ def arrange(drawn: DrawnGA, tol: GATolerances | None = None) -> tuple[GAStrip, .
             fix="draw each strip as a LINE (1 m strip) or a closed polyline (band)",
         )
     ids = _strip_ids(ctx, axes)
-    strips = [_measure(ctx, axis, ids[i], slab, supports) for i, axis in enumerate(axes)]
+    tree = shapely.STRtree([shape.polygon for shape in supports])
+    strips = [_measure(ctx, axis, ids[i], slab, supports, tree) for i, axis in enumerate(axes)]
     return tuple(sorted(strips, key=lambda s: _natural(s.id)))
 
 
@@ -123,9 +125,13 @@ def _natural(text: str) -> tuple:
 def _polygon(
     ctx: _Ctx, poly: DrawnPolyline, layer: str, error: type[GAError], what: str
 ) -> Polygon:
+    no_area = f"{what} encloses no area (its points lie on one line)"
+    how = "draw it as a closed polyline around the area it covers"
     if len(set(poly.points_mm)) < 3:
-        raise error(ctx.file, f"{what} encloses no area", layer=layer, handle=poly.handle)
+        raise error(ctx.file, no_area, layer=layer, handle=poly.handle, fix=how)
     polygon = Polygon(poly.points_mm)
+    if polygon.convex_hull.area <= 1.0:  # collinear points: "invalid", but not a crossing
+        raise error(ctx.file, no_area, layer=layer, handle=poly.handle, fix=how)
     if not polygon.is_valid:
         reason = explain_validity(polygon)
         where = re.search(r"\[([-\d.eE+]+) ([-\d.eE+]+)\]", reason)
@@ -138,7 +144,7 @@ def _polygon(
             fix="redraw it as a simple closed polyline whose edges do not cross",
         )
     if polygon.area <= 1.0:
-        raise error(ctx.file, f"{what} encloses no area", layer=layer, handle=poly.handle)
+        raise error(ctx.file, f"{what} encloses no area", layer=layer, handle=poly.handle, fix=how)
     return polygon
 
 
@@ -208,22 +214,28 @@ def _pair_lines(ctx: _Ctx) -> list[_Shape]:
                 handle=line.handle,
                 fix="delete it",
             )
+    if not lines:
+        return []
     sin_max = math.sin(math.radians(ctx.tol.parallel_deg))
     candidates = []
-    for i, li in enumerate(lines):
-        p, u, length = _unit(li.start_mm, li.end_mm)
-        for j in range(i + 1, len(lines)):
-            lj = lines[j]
-            _, v, _ = _unit(lj.start_mm, lj.end_mm)
-            if abs(_cross(u, v)) > sin_max:
-                continue
-            offsets = [_cross(u, _sub(q, p)) for q in (lj.start_mm, lj.end_mm)]
-            gap = abs(sum(offsets) / 2)
-            ts = sorted(_dot(u, _sub(q, p)) for q in (lj.start_mm, lj.end_mm))
-            t0, t1 = max(0.0, ts[0]), min(length, ts[1])
-            if gap < 1.0 or gap > ctx.tol.max_support_width_mm or t1 - t0 < 1.0:
-                continue
-            candidates.append((gap, i, j, t0, t1))
+    # One line against all later lines at once (numpy), with the arithmetic of _unit and _cross.
+    start = np.array([line.start_mm for line in lines], dtype=float)
+    end = np.array([line.end_mm for line in lines], dtype=float)
+    length = np.array([math.dist(line.start_mm, line.end_mm) for line in lines])
+    unit = (end - start) / length[:, None]
+    for i in range(len(lines)):
+        p, u, li = start[i], unit[i], float(length[i])
+        s0, s1, v = start[i + 1 :] - p, end[i + 1 :] - p, unit[i + 1 :]
+        parallel = np.abs(u[0] * v[:, 1] - u[1] * v[:, 0]) <= sin_max
+        gap = np.abs(
+            ((u[0] * s0[:, 1] - u[1] * s0[:, 0]) + (u[0] * s1[:, 1] - u[1] * s1[:, 0])) / 2
+        )
+        ta, tb = u[0] * s0[:, 0] + u[1] * s0[:, 1], u[0] * s1[:, 0] + u[1] * s1[:, 1]
+        t0 = np.maximum(0.0, np.minimum(ta, tb))
+        t1 = np.minimum(li, np.maximum(ta, tb))
+        keep = parallel & (gap >= 1.0) & (gap <= ctx.tol.max_support_width_mm) & (t1 - t0 >= 1.0)
+        for k in np.flatnonzero(keep):
+            candidates.append((float(gap[k]), i, i + 1 + int(k), float(t0[k]), float(t1[k])))
     used: set[int] = set()
     shapes = []
     for gap, i, j, t0, t1 in sorted(candidates):
@@ -314,12 +326,15 @@ def _strip_ids(ctx: _Ctx, axes: list[_Axis]) -> list[DrawnText]:
     """Each text goes to the strip it lies in (band) or nearest to (line); one per strip."""
     layer = ctx.layers.strips
     found: list[list[DrawnText]] = [[] for _ in axes]
+    tree = shapely.STRtree([axis.shape for axis in axes])  # only strips near a text are tried
     for text in ctx.drawn.strip_texts:
         if not text.text.strip():
             continue
         at = Point(text.at_mm)
         best: tuple[float, int] | None = None
-        for i, axis in enumerate(axes):
+        near = tree.query(at, predicate="dwithin", distance=ctx.tol.id_search_mm)
+        for i in sorted(int(k) for k in near):
+            axis = axes[i]
             if axis.panel_width_mm is not None:
                 dist = 0.0 if axis.shape.covers(at) else math.inf
             else:
@@ -409,7 +424,12 @@ def _chord(ctx: _Ctx, axis: _Axis, name: str, slab: Polygon) -> tuple[float, flo
 
 
 def _measure(
-    ctx: _Ctx, axis: _Axis, id_text: DrawnText, slab: Polygon, supports: list[_Shape]
+    ctx: _Ctx,
+    axis: _Axis,
+    id_text: DrawnText,
+    slab: Polygon,
+    supports: list[_Shape],
+    tree: shapely.STRtree,
 ) -> GAStrip:
     layer = ctx.layers.strips
     p, d, _ = _unit(axis.start, axis.end)
@@ -417,7 +437,8 @@ def _measure(
     t_start, t_end = _chord(ctx, axis, name, slab)
     chord = LineString([_along(p, d, t_start), _along(p, d, t_end)])
     hits = []
-    for shape in supports:
+    for k in sorted(int(k) for k in tree.query(chord, predicate="intersects")):
+        shape = supports[k]
         if chord.intersects(shape.polygon):
             for a, b in _intervals(chord.intersection(shape.polygon), p, d):
                 hits.append(_Hit(a, b, shape.handle))

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 __all__ = [
     "RecordReadError",
+    "format_json",
     "previous_marks",
     "read_previous_marks",
     "record_file_name",
@@ -36,9 +37,46 @@ def record_file_name(project_id: str) -> str:
 
 
 def render_record_json(record: ProjectRecord) -> bytes:
-    """The record as UTF-8 JSON bytes."""
-    text = json.dumps(record_to_jsonable(record), indent=2, ensure_ascii=False, allow_nan=False)
-    return (text + "\n").encode("utf-8")
+    """The record as UTF-8 JSON bytes: indented by two spaces, except that an object or list
+    holding only plain values (a station, a mark's dimensions) is written on one line; a
+    record of hundreds of strips stays quick to write and easy to read and compare."""
+    return format_json(record_to_jsonable(record)).encode("utf-8")
+
+
+def format_json(data: Any) -> str:
+    """JSON text of plain data in the layout of the record files (see
+    :func:`render_record_json`), ending in one newline."""
+    parts: list[str] = []
+    _dump(data, "", parts)
+    parts.append("\n")
+    return "".join(parts)
+
+
+_ENCODE = json.JSONEncoder(ensure_ascii=False, allow_nan=False, separators=(", ", ": ")).encode
+
+
+def _flat(value: Any) -> bool:
+    children = value.values() if isinstance(value, dict) else value
+    return all(not isinstance(v, (dict, list)) for v in children)
+
+
+def _dump(value: Any, pad: str, out: list[str]) -> None:
+    if not isinstance(value, (dict, list)) or not value or _flat(value):
+        out.append(_ENCODE(value))
+        return
+    inner = pad + "  "
+    if isinstance(value, dict):
+        out.append("{")
+        for k, (key, v) in enumerate(value.items()):
+            out.append(("," if k else "") + "\n" + inner + _ENCODE(str(key)) + ": ")
+            _dump(v, inner, out)
+        out.append("\n" + pad + "}")
+    else:
+        out.append("[")
+        for k, v in enumerate(value):
+            out.append(("," if k else "") + "\n" + inner)
+            _dump(v, inner, out)
+        out.append("\n" + pad + "]")
 
 
 def write_record_json(path: Path, record: ProjectRecord) -> None:

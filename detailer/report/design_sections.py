@@ -10,6 +10,7 @@ __all__ = [
     "all_checks",
     "anchorage_section",
     "checks_summary_section",
+    "curtailment_data",
     "curtailment_section",
     "design_section",
     "highest",
@@ -283,7 +284,9 @@ def anchorage_section(s: Json) -> str:
     return "".join(parts)
 
 
-def _curtailment_data(detail: StripDetail) -> plots.CurtailmentData | None:
+def curtailment_data(detail: StripDetail) -> plots.CurtailmentData | None:
+    """What the curtailment diagram of a strip draws (``None`` without principal bars or
+    without the resistance curves of both faces)."""
     if len(detail.resistance) != 2:
         return None
     top, bottom = detail.resistance
@@ -326,13 +329,14 @@ def _dims(b: Json) -> str:
 def curtailment_section(s: Json, detail: StripDetail, *, salt: str) -> str:
     """The curtailment diagram, the bar sets with their marks and the self-check."""
     sid = s["id"]
-    data = _curtailment_data(detail)
+    data = curtailment_data(detail)
     if data is None:
         figure = tag("p", "No principal bars or resistance curves to draw.", cls="warn")
     else:
         svg = plots.curtailment_svg(
             data,
-            title=f"Strip {sid}: shifted M_Ed against M_Rd of the bars provided (kNm per m width)",
+            title=f"Strip {sid}: shifted design moment against the resistance of the bars provided "
+            "(kNm per m width)",
             salt=f"{salt}/curtailment",
         )
         figure = (

@@ -46,6 +46,10 @@ h3 { font-size: 10.5pt; margin: 5mm 0 1.5mm; break-after: avoid; }
 p { margin: 1.5mm 0; }
 code { font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; font-size: 8pt; }
 code.hash { word-break: break-all; }
+.incomplete { border: 0.6mm solid #a15c00; background: #fff6e5; padding: 2mm 3mm; margin: 3mm 0;
+              break-inside: avoid; }
+.incomplete h2 { color: #7a4500; border-bottom-color: #a15c00; }
+.incomplete table { background: #fff; }
 .caution { border: 0.6mm solid #b00020; background: #fff3f3; color: #6d0010; padding: 2mm 3mm;
            font-weight: bold; margin: 3mm 0; break-inside: avoid; }
 table { border-collapse: collapse; width: 100%; margin: 1.5mm 0 3mm; font-size: 7.6pt;
@@ -124,7 +128,7 @@ def _conventions() -> str:
     )
 
 
-def _overview(r: Json) -> str:
+def _overview(r: Json, missing: tuple[tuple[str, str], ...]) -> str:
     rows = []
     for s in r["strips"]:
         checks = all_checks(s)
@@ -141,10 +145,47 @@ def _overview(r: Json) -> str:
                 c(f"{worst.where}: {worst.check['name']}", "note"),
             ]
         )
+    for sid, _ in missing:
+        rows.append(
+            [
+                c(sid),
+                c("not detailed in this issue"),
+                c(""),
+                raw("not detailed", "fail"),
+                raw("&ndash;", "num"),
+                raw("<a href='#not-detailed'>see above</a>", "note"),
+            ]
+        )
     return table(
         ["Strip", "Description", "Checks", "Result", "Highest utilisation", "in"],
         rows,
         caption="Overview",
+    )
+
+
+def _not_detailed(strips: tuple[tuple[str, str], ...]) -> str:
+    """The strips this issue could not design, with the reason for each, marked as such."""
+    if not strips:
+        return ""
+    n = len(strips)
+    lead = (
+        f"<strong>This issue is incomplete.</strong> {n} "
+        + ("strip" if n == 1 else "strips")
+        + " of the project could not be designed and "
+        + ("is" if n == 1 else "are")
+        + " not detailed: "
+        + ("it has" if n == 1 else "they have")
+        + " no bars on the drawing or in the bar schedule, and no calculations in this "
+        "report. Correct the input and issue again before the reinforcement is fixed."
+    )
+    rows = [[c(sid, "nw"), c(reason)] for sid, reason in strips]
+    return tag(
+        "section",
+        tag("h2", "Strips not detailed in this issue")
+        + tag("p", lead)
+        + table(["Strip", "Why it could not be designed"], rows),
+        cls="incomplete",
+        id="not-detailed",
     )
 
 
@@ -190,22 +231,32 @@ def render_report(
     input_name: str,
     input_sha256: str,
     changes: RevisionDiff | None = None,
+    not_detailed: tuple[tuple[str, str], ...] = (),
+    record_data: dict | None = None,
 ) -> bytes:
     """The calculation report as UTF-8 HTML bytes (same input, same bytes).
 
     ``changes``: this issue against the previous one (:func:`detailer.revisions.compare_records`),
-    shown in the "Revisions" section; ``None`` at a first issue.
+    shown in the "Revisions" section; ``None`` at a first issue. ``not_detailed``: (strip
+    id, one-line reason) of the strips that could not be designed in this issue, listed near
+    the top under "Strips not detailed in this issue" (the issue is then incomplete).
+    ``record_data``: ``record_to_jsonable(record)`` when the caller has it already.
     """
-    r = record_to_jsonable(record)
+    r = record_data if record_data is not None else record_to_jsonable(record)
     if len(r["strips"]) != len(detail.strips):
         raise ValueError("the record and the detailed project have different strips")
+    missing = tuple((str(sid), str(reason)) for sid, reason in not_detailed)
+    both = {s["id"] for s in r["strips"]} & {sid for sid, _ in missing}
+    if both:
+        raise ValueError(f"strip {min(both)} is both detailed and not detailed")
     bar_type = r["materials"]["bar_type"]
     body = [
         _caution(),
         _header(r, input_name=input_name, input_sha256=input_sha256),
+        _not_detailed(missing),
         revisions_section(r, changes),
         _conventions(),
-        _overview(r),
+        _overview(r, missing),
     ]
     for s, sd in zip(r["strips"], detail.strips, strict=True):
         if s["id"] != sd.strip.id:

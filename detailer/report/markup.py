@@ -11,17 +11,23 @@ from __future__ import annotations
 
 __all__ = ["Cell", "Json", "c", "clause", "esc", "k", "num", "raw", "table", "tag"]
 
+import functools
 import html
+import re
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass
 from typing import Any
 
 #: A record object in its JSON-ready form (see :func:`detailer.record.record_to_jsonable`).
 Json = dict[str, Any]
 
 
+_SPECIAL = re.compile("[&<>\"']")
+
+
 def esc(text: object) -> str:
-    return html.escape(str(text), quote=True)
+    """``text`` escaped for HTML text and attribute values (most need nothing: checked first)."""
+    s = text if isinstance(text, str) else str(text)
+    return html.escape(s, quote=True) if _SPECIAL.search(s) else s
 
 
 def num(value: object) -> str:
@@ -35,6 +41,8 @@ def num(value: object) -> str:
 
 def tag(name: str, content: str = "", **attrs: object) -> str:
     """``<name attrs>content</name>``; ``cls`` gives ``class``, ``data_x`` gives ``data-x``."""
+    if not attrs:
+        return f"<{name}>{content}</{name}>"
     parts = [name]
     for key, value in attrs.items():
         if value is None or value is False:
@@ -48,31 +56,37 @@ def tag(name: str, content: str = "", **attrs: object) -> str:
 KEEP_TOGETHER_ROWS = 14
 
 
-@dataclass(frozen=True, slots=True)
-class Cell:
-    """One table cell: ``html`` is already escaped markup."""
+#: One table cell: its finished ``<td>`` markup (``data-key``: where its value sits in the
+#: record). Cells are strings so that a table of many rows is a few joins.
+Cell = str
 
-    html: str
-    key: str = ""  # data-key: where the value sits in the record
-    cls: str = ""
+
+def _td(markup: str, key: str = "", cls: str = "") -> Cell:
+    attrs = ""
+    if cls:
+        attrs += f' class="{esc(cls)}"'
+    if key:
+        attrs += f' data-key="{esc(key)}"'
+    return f"<td{attrs}>{markup}</td>"
 
 
 def c(text: object, cls: str = "") -> Cell:
     """A plain text cell (escaped)."""
-    return Cell(esc(text), cls=cls)
+    return _td(esc(text), cls=cls)
 
 
 def raw(markup: str, cls: str = "") -> Cell:
     """A cell of ready markup (already escaped)."""
-    return Cell(markup, cls=cls)
+    return _td(markup, cls=cls)
 
 
+@functools.lru_cache(maxsize=1024)
 def clause(text: str) -> Cell:
     """A clause reference, broken only after the code's name ("EN 1992-1-1:2004," / "9.2.1.1(1)")."""
     code, sep, rest = str(text).partition(", ")
     if not sep:
-        return Cell(tag("span", esc(text), cls="nw"), cls="clause")
-    return Cell(
+        return _td(tag("span", esc(text), cls="nw"), cls="clause")
+    return _td(
         tag("span", esc(code + ","), cls="nw") + " " + tag("span", esc(rest), cls="nw"),
         cls="clause",
     )
@@ -80,7 +94,9 @@ def clause(text: str) -> Cell:
 
 def k(value: object, key: str, cls: str = "num") -> Cell:
     """A record number, keyed."""
-    return Cell(esc(num(value)), key=key, cls=cls)
+    text = num(value)
+    # A number's text (digits, sign, point, exponent) needs no escaping.
+    return _td(text if isinstance(value, (int, float)) else esc(text), key=key, cls=cls)
 
 
 def table(
@@ -99,10 +115,8 @@ def table(
     thead = f"<thead><tr>{head}</tr></thead>" if any(headers) else ""
     body = []
     for i, row in enumerate(rows):
-        cells = "".join(
-            tag("td", cell.html, cls=cell.cls or None, data_key=cell.key or None) for cell in row
-        )
-        rc = row_classes[i] if i < len(row_classes) and row_classes[i] else None
-        body.append(tag("tr", cells, cls=rc))
+        cells = "".join(row)
+        rc = row_classes[i] if i < len(row_classes) and row_classes[i] else ""
+        body.append(f'<tr class="{esc(rc)}">{cells}</tr>' if rc else f"<tr>{cells}</tr>")
     cap = f"<caption>{caption}</caption>" if caption else ""
     return tag("table", f"{cap}{thead}<tbody>{''.join(body)}</tbody>", cls=cls or None)

@@ -1,12 +1,17 @@
 """Plots of the calculation report as inline SVG: moment and shear envelopes, curtailment.
 
-matplotlib is imported lazily (only when a report is written) and driven without pyplot, so no
-global backend or figure state is touched. Output is byte-stable: the SVG id salt is fixed per
-figure (which also keeps ids unique when several plots share one HTML page), text stays text
-(``svg.fonttype = 'none'``) and the date and creator metadata are left out.
+Drawn by hand with :mod:`detailer.report.svg` (no plotting library): a few milliseconds a
+plot, the same bytes for the same data. Every plot is an ``<svg class="plot">`` with
+``data-plot`` (the caller's ``salt``, unique on the page), ``role="img"``, an accessible name
+(``aria-label`` and ``<title>``) and a ``<desc>`` listing the values written on it. The curves
+carry ``data-series`` (``m_max``, ``m_min``, ``v_max``, ``v_min``, ``m_rd_top``,
+``m_ed_top``, ``m_rd_bottom``, ``m_ed_bottom``; the shaded area between an envelope's two
+curves is ``range``), the bars of the curtailment diagram ``data-mark`` and ``data-layer``,
+so tests and tools can find them. Scales and ticks: :mod:`detailer.report.axes`.
 
 Sign convention of every moment plot: sagging positive, drawn on the tension side (the UK
-convention), i.e. sagging below the axis and hogging above it.
+convention), i.e. sagging below the axis and hogging above it. x is in mm in the data and
+labelled in m on the axis.
 """
 
 from __future__ import annotations
@@ -22,35 +27,28 @@ __all__ = [
     "shear_svg",
 ]
 
-import html
-import io
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
 
 import numpy as np
+
+from detailer.report import axes
+from detailer.report.axes import Frame, Legend
+from detailer.report.svg import Canvas, Pen, simplify, text_width
 
 # Pens (report rendering only).
 SAGGING = "#c0392b"  # bottom face / sagging
 HOGGING = "#1f5fa8"  # top face / hogging
 SHIFTED = "#333333"
-BAND = "#e8e8e8"
-SUPPORT = "#9a9a9a"
-FIG_WIDTH_IN = 7.2  # fits an A4 page with 12 mm margins
-_RC = {
-    "font.family": "DejaVu Sans",
-    "font.size": 7.5,
-    "axes.titlesize": 8.5,
-    "axes.labelsize": 7.5,
-    "xtick.labelsize": 7,
-    "ytick.labelsize": 7,
-    "legend.fontsize": 7,
-    "axes.linewidth": 0.6,
-    "lines.linewidth": 1.1,
-    "svg.fonttype": "none",
-    "path.simplify": True,
-}
-_METADATA = {"Date": None, "Creator": None, "Format": None, "Type": None}
+SHEAR_MAX = "#7a3e9d"
+SHEAR_MIN = "#2e8b57"
+ENVELOPE_FILL = "#f1f1f1"
+CURVE_WIDTH = 1.4
+BAR_WIDTH = 2.2
+#: Curves are thinned to this deviation (drawing units, about 0.03 mm on an A4 page).
+TOLERANCE = 0.12
+FS_NOTE = 9.0
+FS_BAR = 8.8
 
 
 @dataclass(frozen=True, slots=True)
@@ -107,260 +105,301 @@ class CurtailmentData:
     supports: tuple[SupportMark, ...]
 
 
-def _mpl() -> tuple[Any, Any]:
-    import matplotlib
-    from matplotlib.figure import Figure
-
-    return matplotlib, Figure
+# ----------------------------------------------------------------------------- drawing
 
 
-def _to_svg(fig: Any, salt: str, title: str, matplotlib: Any) -> str:
-    """The figure as an ``<svg>`` element for inline use (no XML prolog), tagged with
-    ``data-plot`` (= ``salt``) and an accessible name."""
-    buf = io.StringIO()
-    with matplotlib.rc_context({"svg.hashsalt": salt, **_RC}):
-        fig.savefig(buf, format="svg", metadata=_METADATA)
-    text = buf.getvalue()
-    text = text[text.index("<svg") :].strip()
-    label = html.escape(title, quote=True)
-    attrs = f'<svg class="plot" data-plot="{html.escape(salt, quote=True)}" role="img" aria-label="{label}" '
-    return attrs + text[len("<svg ") :] + "\n"
+def _xy(frame: Frame, x_mm: np.ndarray, values: np.ndarray) -> np.ndarray:
+    """Finite (x, value) pairs in drawing units, thinned to :data:`TOLERANCE`."""
+    x = np.asarray(x_mm, dtype=float)
+    v = np.asarray(values, dtype=float)
+    ok = np.isfinite(x) & np.isfinite(v)
+    xy = np.column_stack([frame.px(x[ok]), frame.py(v[ok])])
+    return simplify(xy, TOLERANCE)
 
 
-def _metres(ax: Any) -> None:
-    """x tick labels in m (the strip is drawn in mm)."""
-    from matplotlib.ticker import FuncFormatter, MultipleLocator
-
-    ax.xaxis.set_major_locator(MultipleLocator(1000.0))
-    ax.xaxis.set_major_formatter(FuncFormatter(lambda v, _pos: f"{v / 1000.0:g}"))
+def _curve(c: Canvas, xy: np.ndarray, pen: Pen, name: str) -> None:
+    if len(xy):
+        c.polyline(xy, pen, data_series=name)
 
 
-def _supports(ax: Any, supports: Sequence[SupportMark], labels: bool = True) -> None:
-    for s in supports:
-        if s.width_mm > 0:
-            ax.axvspan(s.x_mm - s.width_mm / 2, s.x_mm + s.width_mm / 2, color=BAND, zorder=0, lw=0)
-        ax.axvline(s.x_mm, color=SUPPORT, lw=0.6, ls=(0, (4, 3)), zorder=1)
-        if labels:
-            ax.annotate(
-                s.label,
-                xy=(s.x_mm, 1.0),
-                xycoords=("data", "axes fraction"),
-                xytext=(0, 2),
-                textcoords="offset points",
-                ha="center",
-                va="bottom",
-                fontsize=7.5,
-                fontweight="bold",
-            )
+def _to_zero(frame: Frame, xy: np.ndarray) -> np.ndarray:
+    """Outline of the area between a curve (drawing units) and the zero line."""
+    if not len(xy):
+        return xy
+    y0 = float(frame.py(0.0))
+    return np.vstack([xy, [[xy[-1, 0], y0], [xy[0, 0], y0]]])
 
 
-def _annotate(ax: Any, notes: Sequence[Annotation], tension_side: bool) -> None:
-    """Values beside their peaks, pushed away from the axis (down for sagging in the moment
-    plot, whose y axis is inverted)."""
-    x0, x1 = ax.get_xlim()
-    for n in notes:
-        away = 1 if n.value >= 0 else -1
-        dy = -away * 7 if tension_side else away * 7
-        where = (n.x_mm - x0) / ((x1 - x0) or 1.0)
-        ha = "left" if where < 0.04 else "right" if where > 0.96 else "center"
-        ax.annotate(
-            n.text,
-            xy=(n.x_mm, n.value),
-            xytext=(0, dy),
-            textcoords="offset points",
-            ha=ha,
-            va="center",
-            fontsize=6.5,
-            bbox={"boxstyle": "square,pad=0.1", "fc": "white", "ec": "none", "alpha": 0.8},
-        )
+def _notes(c: Canvas, frame: Frame, notes: Sequence[Annotation]) -> None:
+    """Values beside their points, on the side away from the zero line (below a point drawn
+    below it), kept inside the frame, on a white ground so curves do not cross the digits."""
+    y0 = float(frame.py(0.0))
+    cap = 0.73 * FS_NOTE
+    c.open(cls="values")
+    for n in sorted(notes, key=lambda n: (n.x_mm, n.value, n.text)):
+        if not (np.isfinite(n.x_mm) and np.isfinite(n.value)):
+            continue
+        px, py = float(frame.px(n.x_mm)), float(frame.py(n.value))
+        w = text_width(n.text, FS_NOTE)
+        x = min(max(px, frame.left + 3 + w / 2), frame.right - 3 - w / 2)
+        base = py + 6 + cap if py > y0 + 0.01 else py - 6
+        base = min(max(base, frame.top + cap + 3), frame.bottom - 3)
+        c.rect(x - w / 2 - 1.5, base - cap - 1.5, w + 3, cap + 3.5, "#ffffff", 0.85)
+        c.text(x, base, n.text, size=FS_NOTE, anchor="middle", data_x_mm=f"{n.x_mm:.1f}")
+    c.close()
 
 
-def _finish(ax: Any, x_mm: np.ndarray, ylabel: str) -> None:
-    ax.axhline(0.0, color="black", lw=0.7, zorder=2)
-    ax.set_xlim(float(np.min(x_mm)) - 150.0, float(np.max(x_mm)) + 150.0)
-    _metres(ax)
-    ax.set_xlabel("x along the strip (m)")
-    ax.set_ylabel(ylabel)
-    ax.grid(True, color="#dddddd", lw=0.4)
-    ax.set_axisbelow(True)
-
-
-def _title_and_legend(fig: Any, ax: Any, title: str, *, tight: bool = True) -> None:
-    """Title on the left and the legend on the right of one line above the plot, clear of
-    the curves and of the support labels."""
-    fig.text(0.01, 0.995, title, ha="left", va="top", fontsize=8.5, fontweight="bold")
-    fig.legend(
-        *ax.get_legend_handles_labels(),
-        loc="upper right",
-        bbox_to_anchor=(0.995, 0.955),
-        ncols=3,
-        frameon=False,
-        handlelength=2.4,
+def _desc_values(notes: Sequence[Annotation], unit: str) -> str:
+    if not notes:
+        return ""
+    ordered = sorted(notes, key=lambda n: (n.x_mm, n.value, n.text))
+    return (
+        "Values marked ("
+        + unit
+        + "): "
+        + "; ".join(f"{n.text} at x = {n.x_mm / 1000.0:.2f} m" for n in ordered)
+        + "."
     )
-    if tight:
-        fig.tight_layout(pad=0.4, rect=(0.0, 0.0, 1.0, 0.86))
+
+
+def _envelope(
+    data: EnvelopeData,
+    *,
+    title: str,
+    salt: str,
+    inverted: bool,
+    pens: tuple[Pen, Pen],
+    names: tuple[str, str],
+    labels: tuple[str, str],
+    ylabel: str,
+    unit: str,
+    height: float,
+) -> str:
+    x = np.asarray(data.x_mm, dtype=float)
+    upper = np.asarray(data.upper, dtype=float)
+    lower = np.asarray(data.lower, dtype=float)
+    legend = Legend.of(((labels[0], pens[0]), (labels[1], pens[1])))
+    frame, yaxis, xaxis, head = axes.layout(
+        title,
+        legend,
+        x_mm=[x, [s.x_mm for s in data.supports]],
+        values=[upper, lower, [n.value for n in data.annotations]],
+        inverted=inverted,
+        height=height,
+        pad=0.16,
+    )
+    c = Canvas(axes.WIDTH, frame.bottom + axes.BELOW)
+    axes.background(c)
+    axes.header(c, head)
+    axes.support_bands(c, frame, data.supports, frame.top, frame.bottom)
+    axes.grid(c, frame, xaxis, yaxis, frame.top, frame.bottom)
+    xy_upper, xy_lower = _xy(frame, x, upper), _xy(frame, x, lower)
+    c.polygon(np.vstack([xy_upper, xy_lower[::-1]]), ENVELOPE_FILL, data_series="range")
+    axes.support_lines(c, frame, data.supports, frame.top, frame.bottom, labels=True)
+    axes.zero_line(c, frame)
+    _curve(c, xy_upper, pens[0], names[0])
+    _curve(c, xy_lower, pens[1], names[1])
+    _notes(c, frame, data.annotations)
+    axes.frame_box(c, frame)
+    axes.y_ticks(c, frame, yaxis, ylabel)
+    axes.x_ticks(c, frame, xaxis, frame.bottom, "x along the strip (m)")
+    return c.svg(title=title, desc=_desc_values(data.annotations, unit), cls="plot", data_plot=salt)
 
 
 def moment_svg(data: EnvelopeData, *, title: str, salt: str) -> str:
     """Bending-moment envelope, sagging drawn below the axis (tension side)."""
-    matplotlib, Figure = _mpl()
-    with matplotlib.rc_context(_RC):
-        fig = Figure(figsize=(FIG_WIDTH_IN, 2.9))
-        ax = fig.add_subplot()
-        x = data.x_mm
-        ax.fill_between(x, data.lower, data.upper, color="#f3f3f3", lw=0, zorder=1)
-        ax.plot(x, data.upper, color=SAGGING, label=r"$M_\mathrm{Ed,max}$ (most sagging)", zorder=3)
-        ax.plot(x, data.lower, color=HOGGING, label=r"$M_\mathrm{Ed,min}$ (most hogging)", zorder=3)
-        _supports(ax, data.supports)
-        _finish(ax, x, r"$M_\mathrm{Ed}$ (kNm/m), sagging +")
-        ax.invert_yaxis()  # sagging (+) below the axis: tension side
-        ax.margins(y=0.18)
-        _annotate(ax, data.annotations, tension_side=True)
-        _title_and_legend(fig, ax, title)
-    return _to_svg(fig, salt, title, matplotlib)
+    return _envelope(
+        data,
+        title=title,
+        salt=salt,
+        inverted=True,
+        pens=(Pen(SAGGING, CURVE_WIDTH), Pen(HOGGING, CURVE_WIDTH)),
+        names=("m_max", "m_min"),
+        labels=("M_Ed,max (most sagging)", "M_Ed,min (most hogging)"),
+        ylabel="M_Ed (kNm/m), sagging +",
+        unit="kNm/m",
+        height=170.0,
+    )
 
 
 def shear_svg(data: EnvelopeData, *, title: str, salt: str) -> str:
     """Shear-force envelope, positive up."""
-    matplotlib, Figure = _mpl()
-    with matplotlib.rc_context(_RC):
-        fig = Figure(figsize=(FIG_WIDTH_IN, 2.6))
-        ax = fig.add_subplot()
-        x = data.x_mm
-        ax.fill_between(x, data.lower, data.upper, color="#f3f3f3", lw=0, zorder=1)
-        ax.plot(x, data.upper, color="#7a3e9d", label=r"$V_\mathrm{Ed,max}$", zorder=3)
-        ax.plot(x, data.lower, color="#2e8b57", label=r"$V_\mathrm{Ed,min}$", zorder=3)
-        _supports(ax, data.supports)
-        _finish(ax, x, r"$V_\mathrm{Ed}$ (kN/m)")
-        ax.margins(y=0.18)
-        _annotate(ax, data.annotations, tension_side=False)
-        _title_and_legend(fig, ax, title)
-    return _to_svg(fig, salt, title, matplotlib)
+    return _envelope(
+        data,
+        title=title,
+        salt=salt,
+        inverted=False,
+        pens=(Pen(SHEAR_MAX, CURVE_WIDTH), Pen(SHEAR_MIN, CURVE_WIDTH)),
+        names=("v_max", "v_min"),
+        labels=("V_Ed,max", "V_Ed,min"),
+        ylabel="V_Ed (kN/m)",
+        unit="kN/m",
+        height=145.0,
+    )
 
 
-def _lanes(bars: Sequence[BarLine], gap_mm: float) -> list[int]:
-    """First-fit lanes so that overlapping bars of one layer are drawn one above the other."""
-    ends: list[float] = []
-    out = []
-    for b in bars:
-        for i, end in enumerate(ends):
-            if b.x_start_mm > end + gap_mm:
-                ends[i] = b.x_end_mm
-                out.append(i)
-                break
-        else:
-            ends.append(b.x_end_mm)
-            out.append(len(ends) - 1)
+# ------------------------------------------------------------------------- curtailment
+
+
+@dataclass(frozen=True, slots=True)
+class _Placed:
+    """A bar with its lane (0 next to the axis) and its label's anchor and extent."""
+
+    bar: BarLine
+    lane: int
+    x0: float  # bar ends, drawing units
+    x1: float
+    text_x: float  # label centre
+    lo: float  # what the bar and its label occupy along x
+    hi: float
+
+
+LANE_GAP = 8.0  # clear distance between two bars (with labels) in one lane, drawing units
+
+
+def _place(bars: Sequence[BarLine], frame: Frame) -> list[_Placed]:
+    """First-fit lanes per layer: a bar goes into the first lane nearest the axis where it and
+    its label clear the bars already there."""
+    out: list[_Placed] = []
+    for layer in ("T1", "B1"):
+        group = sorted(
+            (b for b in bars if b.layer == layer),
+            key=lambda b: (b.x_start_mm, b.x_end_mm, b.mark, b.label),
+        )
+        ends: list[float] = []
+        for b in group:
+            x0 = float(frame.px(b.x_start_mm))
+            x1 = float(frame.px(b.x_end_mm))
+            w = text_width(b.label, FS_BAR)
+            mid = min(max(0.5 * (x0 + x1), frame.left + w / 2), frame.right - w / 2)
+            lo, hi = min(x0, mid - w / 2), max(x1, mid + w / 2)
+            for lane, end in enumerate(ends):
+                if lo > end + LANE_GAP:
+                    ends[lane] = hi
+                    break
+            else:
+                ends.append(hi)
+                lane = len(ends) - 1
+            out.append(_Placed(b, lane, x0, x1, mid, lo, hi))
     return out
 
 
-def _bar_rows(
-    bars: Sequence[BarLine], length_mm: float
-) -> tuple[list[tuple[BarLine, float]], float]:
-    """(bar, y) for the bar diagram: top layer lanes above y = 0, bottom layer lanes below."""
-    gap = 0.09 * length_mm  # room for the label
-    rows: list[tuple[BarLine, float]] = []
-    n_top = n_bot = 0
-    for layer, sign in (("T1", 1.0), ("B1", -1.0)):
-        group = sorted((b for b in bars if b.layer == layer), key=lambda b: b.x_start_mm)
-        lanes = _lanes(group, gap)
-        for b, lane in zip(group, lanes, strict=True):
-            rows.append((b, sign * (lane + 1)))
-        if layer == "T1":
-            n_top = max(lanes, default=-1) + 1
-        else:
-            n_bot = max(lanes, default=-1) + 1
-    return rows, float(max(n_top, n_bot, 1))
+LANE_PITCH = 17.0
+LEG = 5.0
 
 
-def _label_at(b: BarLine, x_lo: float, x_hi: float) -> tuple[float, str]:
-    """Where a bar's label goes: centred on the bar, or flush with a bar end at the edges of
-    the plot so it is not cut off (the label is about 11 % of the plot width)."""
-    half = 0.055 * (x_hi - x_lo)
-    mid = 0.5 * (b.x_start_mm + b.x_end_mm)
-    if mid - half < x_lo:
-        return max(b.x_start_mm, x_lo), "left"
-    if mid + half > x_hi:
-        return min(b.x_end_mm, x_hi), "right"
-    return mid, "center"
+def _bar_y(p: _Placed, axis_y: float) -> float:
+    if p.bar.layer == "T1":
+        return axis_y - 9.0 - p.lane * LANE_PITCH
+    return axis_y + 14.0 + p.lane * LANE_PITCH
 
 
 def curtailment_svg(data: CurtailmentData, *, title: str, salt: str) -> str:
     """Shifted M_Ed against M_Rd of the bars provided, both faces on the tension side, and
     the principal bars with their marks below, cut-off points dotted through both."""
-    matplotlib, Figure = _mpl()
-    with matplotlib.rc_context(_RC):
-        x_all = np.concatenate([data.x_top_mm, data.x_bottom_mm])
-        length = float(np.max(x_all) - np.min(x_all)) or 1.0
-        rows, n_lanes = _bar_rows(data.bars, length)
-        fig = Figure(figsize=(FIG_WIDTH_IN, 3.4 + 0.32 * 2 * n_lanes))
-        grid = fig.add_gridspec(2, 1, height_ratios=[3.0, 0.55 + 0.3 * 2 * n_lanes], hspace=0.08)
-        ax = fig.add_subplot(grid[0])
-        axb = fig.add_subplot(grid[1], sharex=ax)
+    xt = np.asarray(data.x_top_mm, dtype=float)
+    xb = np.asarray(data.x_bottom_mm, dtype=float)
+    top_rd = -np.asarray(data.m_rd_top, dtype=float)  # hogging: negative, drawn above
+    top_ed = -np.asarray(data.m_ed_top, dtype=float)
+    bot_rd = np.asarray(data.m_rd_bottom, dtype=float)
+    bot_ed = np.asarray(data.m_ed_bottom, dtype=float)
+    pens = {
+        "top": Pen(HOGGING, CURVE_WIDTH),
+        "bottom": Pen(SAGGING, CURVE_WIDTH),
+        "shifted": Pen(SHIFTED, 1.1, dash="5 2.5"),
+    }
+    legend = Legend.of(
+        (
+            ("M_Rd top bars (above the axis)", pens["top"]),
+            ("M_Ed shifted by a_l (9.2.1.3)", pens["shifted"]),
+            ("M_Rd bottom bars (below)", pens["bottom"]),
+        )
+    )
+    frame, yaxis, xaxis, head = axes.layout(
+        title,
+        legend,
+        x_mm=[xt, xb, [s.x_mm for s in data.supports]]
+        + [[b.x_start_mm, b.x_end_mm] for b in data.bars],
+        values=[top_rd, top_ed, bot_rd, bot_ed],
+        inverted=True,
+        height=175.0,
+        pad=0.06,
+    )
+    placed = _place(data.bars, frame)
+    n_top = max([p.lane + 1 for p in placed if p.bar.layer == "T1"], default=1)
+    n_bot = max([p.lane + 1 for p in placed if p.bar.layer == "B1"], default=1)
+    lanes_top = frame.bottom + 8.0
+    axis_y = lanes_top + 22.0 + (n_top - 1) * LANE_PITCH
+    lanes_bottom = axis_y + 20.0 + (n_bot - 1) * LANE_PITCH
 
-        # Top face: hogging, drawn above the axis (negative values, y axis inverted).
-        ax.fill_between(data.x_top_mm, -data.m_rd_top, 0.0, color=HOGGING, alpha=0.10, lw=0)
-        ax.plot(
-            data.x_top_mm,
-            -data.m_rd_top,
-            color=HOGGING,
-            label=r"$M_\mathrm{Rd}$ top bars (above the axis)",
+    c = Canvas(axes.WIDTH, lanes_bottom + axes.BELOW)
+    axes.background(c)
+    axes.header(c, head)
+    axes.support_bands(c, frame, data.supports, frame.top, frame.bottom)
+    axes.support_bands(c, frame, data.supports, lanes_top, lanes_bottom)
+    axes.grid(c, frame, xaxis, yaxis, frame.top, frame.bottom)
+    curves = {
+        "m_rd_top": _xy(frame, xt, top_rd),
+        "m_ed_top": _xy(frame, xt, top_ed),
+        "m_rd_bottom": _xy(frame, xb, bot_rd),
+        "m_ed_bottom": _xy(frame, xb, bot_ed),
+    }
+    c.polygon(_to_zero(frame, curves["m_rd_top"]), HOGGING, 0.1)
+    c.polygon(_to_zero(frame, curves["m_rd_bottom"]), SAGGING, 0.1)
+    # Cut-off points: dotted through the diagram and the bars.
+    for layer, colour in (("T1", HOGGING), ("B1", SAGGING)):
+        ends = sorted({x for p in placed if p.bar.layer == layer for x in (p.x0, p.x1)})
+        c.path(
+            [(x, frame.top, x, lanes_bottom) for x in ends if frame.left <= x <= frame.right],
+            Pen(colour, 0.6, dash="1 2", opacity=0.7),
+            cls=f"cut-offs-{layer}",
         )
-        ax.plot(
-            data.x_top_mm,
-            -data.m_ed_top,
-            color=SHIFTED,
-            ls=(0, (5, 2)),
-            label=r"$M_\mathrm{Ed}$ shifted by $a_l$ (9.2.1.3)",
-        )
-        ax.fill_between(data.x_bottom_mm, 0.0, data.m_rd_bottom, color=SAGGING, alpha=0.10, lw=0)
-        ax.plot(
-            data.x_bottom_mm,
-            data.m_rd_bottom,
-            color=SAGGING,
-            label=r"$M_\mathrm{Rd}$ bottom bars (below)",
-        )
-        ax.plot(data.x_bottom_mm, data.m_ed_bottom, color=SHIFTED, ls=(0, (5, 2)))
-        _supports(ax, data.supports)
-        _finish(ax, x_all, "M (kNm/m), sagging +")
-        ax.invert_yaxis()
-        ax.margins(y=0.08)
-        ax.set_xlabel("")
-        ax.tick_params(labelbottom=False)
-        _title_and_legend(fig, ax, title, tight=False)
-        x_lo = float(np.min(x_all)) - 150.0
-        x_hi = float(np.max(x_all)) + 150.0
-        # The bars: T1 lanes above, B1 lanes below; cut-off points dotted through both axes.
-        tick = 0.28
-        for b, y in rows:
-            colour = HOGGING if b.layer == "T1" else SAGGING
-            axb.plot(
-                [b.x_start_mm, b.x_end_mm], [y, y], color=colour, lw=1.6, solid_capstyle="butt"
-            )
-            down = -tick if y > 0 else tick  # legs turn towards the other face
-            for at, leg in ((b.x_start_mm, b.leg_left), (b.x_end_mm, b.leg_right)):
-                if leg:
-                    axb.plot([at, at], [y, y + down], color=colour, lw=1.6)
-                for a in (ax, axb):
-                    a.axvline(at, color=colour, lw=0.45, ls=(0, (1, 2)), alpha=0.7, zorder=1)
-            x_text, ha = _label_at(b, x_lo, x_hi)
-            axb.text(
-                x_text,
-                y + 0.2,
-                b.label,
-                ha=ha,
-                va="bottom",
-                fontsize=6.3,
-                color=colour,
-            )
-        _supports(axb, data.supports, labels=False)
-        axb.axhline(0.0, color="black", lw=0.5)
-        axb.set_ylim(-n_lanes - 0.7, n_lanes + 0.9)
-        axb.set_yticks([n_lanes / 2 + 0.5, -n_lanes / 2 - 0.5], ["T1", "B1"])
-        axb.tick_params(axis="y", length=0)
-        _metres(axb)
-        axb.set_xlabel("x along the strip (m); dotted: bar ends (cut-off points)")
-        for s in ("top", "right", "left"):
-            axb.spines[s].set_visible(False)
-        fig.subplots_adjust(left=0.08, right=0.99, top=0.87, bottom=0.1)
-    return _to_svg(fig, salt, title, matplotlib)
+    axes.support_lines(c, frame, data.supports, frame.top, frame.bottom, labels=True)
+    axes.support_lines(c, frame, data.supports, lanes_top, lanes_bottom, labels=False)
+    axes.zero_line(c, frame)
+    for name, pen in (
+        ("m_rd_top", pens["top"]),
+        ("m_ed_top", pens["shifted"]),
+        ("m_rd_bottom", pens["bottom"]),
+        ("m_ed_bottom", pens["shifted"]),
+    ):
+        _curve(c, curves[name], pen, name)
+    axes.frame_box(c, frame)
+    axes.y_ticks(c, frame, yaxis, "M (kNm/m), sagging +")
+
+    # The bars: T1 lanes above the line, B1 lanes below; legs turn towards the other face.
+    c.line(frame.left, axis_y, frame.right, axis_y, Pen("#000000", 0.7), cls="lanes-axis")
+    for layer, y in (
+        ("T1", 0.5 * (lanes_top + axis_y)),
+        ("B1", 0.5 * (axis_y + lanes_bottom)),
+    ):
+        c.text(frame.left - 8, y + 3.5, layer, size=axes.FS_TICK, anchor="end", bold=True)
+    for p in sorted(placed, key=lambda p: (p.bar.layer, p.lane, p.x0, p.bar.mark)):
+        colour = HOGGING if p.bar.layer == "T1" else SAGGING
+        y = _bar_y(p, axis_y)
+        leg = LEG if p.bar.layer == "T1" else -LEG
+        c.open(cls="bar", data_mark=p.bar.mark, data_layer=p.bar.layer)
+        pts = [(p.x0, y), (p.x1, y)]
+        if p.bar.leg_left:
+            pts.insert(0, (p.x0, y + leg))
+        if p.bar.leg_right:
+            pts.append((p.x1, y + leg))
+        c.polyline(np.array(pts), Pen(colour, BAR_WIDTH), data_x_mm=_span_text(p.bar))
+        w = text_width(p.bar.label, FS_BAR)
+        c.rect(p.text_x - w / 2 - 1.5, y - 11.0, w + 3.0, 8.5, "#ffffff", 0.85)
+        c.text(p.text_x, y - 3.5, p.bar.label, size=FS_BAR, anchor="middle", colour=colour)
+        c.close()
+    c.line(frame.left, lanes_bottom, frame.right, lanes_bottom, axes.FRAME)
+    axes.x_ticks(
+        c, frame, xaxis, lanes_bottom, "x along the strip (m); dotted: bar ends (cut-off points)"
+    )
+    desc = "Bars: " + "; ".join(
+        f"{p.bar.label} ({p.bar.layer}) from x = {p.bar.x_start_mm / 1000.0:.2f} m "
+        f"to {p.bar.x_end_mm / 1000.0:.2f} m"
+        for p in sorted(placed, key=lambda p: (p.bar.x_start_mm, p.bar.layer, p.bar.mark))
+    )
+    return c.svg(title=title, desc=desc + "." if placed else "", cls="plot", data_plot=salt)
+
+
+def _span_text(b: BarLine) -> str:
+    return f"{b.x_start_mm:.1f} {b.x_end_mm:.1f}"

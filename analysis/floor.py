@@ -1,0 +1,567 @@
+"""A whole floor of slab strips solved at once: one block-diagonal banded system.
+
+Every strip (a ``BeamModel``) keeps its own DOFs, a disjoint range of the floor's, and its
+own EI; the strips never couple, so the floor's stiffness is block-diagonal and banded. Its
+blocks are factorised in lockstep (``analysis.banded.cholesky_banded_blocks``: column j of
+every block at once) and every strip's load cases are right-hand-side columns; a strip with
+fewer cases than the most gets zero columns. Loads are validated, stations built, end
+actions, node moments, reactions and station values computed for all strips together with
+the formulas of the single-strip solver (``analysis.stiffness``, ``analysis.stations``), so
+each strip's result equals ``solve_nodes`` / ``solve`` to round-off. Only the per-strip
+result objects are made one strip at a time, as views of the floor's arrays.
+
+The point is speed for many small strips (a floor of hundreds of 3-6 span strips): the cost
+of the single solver is per call, not per DOF. Errors are those of the single solver for
+the first bad strip, prefixed "model k: ".
+"""
+
+from __future__ import annotations
+
+import itertools
+from collections.abc import Sequence
+from dataclasses import dataclass
+
+import numpy as np
+
+from analysis.banded import cholesky_banded_blocks
+from analysis.beam import BeamModel, Load
+from analysis.stations import (
+    FreeTerms,
+    LoadTable,
+    Stations,
+    free_term_arrays,
+    full_line_loads,
+    load_table,
+    stacked_load_table,
+    station_arrays,
+)
+from analysis.stiffness import (
+    CaseResults,
+    Frame,
+    NodeSolution,
+    band_entries,
+    element_matrices,
+    load_vectors,
+    node_results,
+    restraint_codes,
+    solve_nodes,
+)
+
+__all__ = ["solve_floor", "solve_nodes_floor"]
+
+FloorCases = Sequence[Sequence[Sequence[Load]]]
+FloorNames = Sequence[Sequence[str] | None] | None
+
+
+class _StripError(Exception):
+    """Strip ``index`` of the floor is bad (internal; the caller words the error)."""
+
+    def __init__(self, index: int, message: str, kind: type[Exception] = ValueError) -> None:
+        super().__init__(message)
+        self.index, self.message, self.kind = index, message, kind
+
+
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
+class _Floor:
+    """Every strip's geometry, stations and node results side by side (internal). Node
+    arrays are (n_cols, n_nodes) over all strips' nodes; a strip's cases are its first
+    columns. Offsets have one entry per strip plus one."""
+
+    models: tuple[BeamModel, ...]
+    n_cases: tuple[int, ...]
+    node_off: np.ndarray  # first node of each strip
+    seg_off: np.ndarray  # first segment (= element)
+    st_off: np.ndarray  # first station
+    frame: Frame
+    ei_el: np.ndarray  # (n_el,) EI of each element, kNm2
+    length_mm: np.ndarray  # (n_el,)
+    n_div: np.ndarray  # (n_el,) grid divisions of each element (its strip's)
+    table: LoadTable  # segments numbered over the floor, cases within each strip
+    st_seg: np.ndarray  # (n_st,) floor segment of each station
+    st_local_mm: np.ndarray  # (n_st,)
+    st_side: np.ndarray  # (n_st,)
+    st_start: np.ndarray  # (n_st_floor + 1,) stations of floor segment j: st_start[j]:[j+1]
+    stations: tuple[Stations, ...]
+    node_m: np.ndarray
+    reactions: np.ndarray
+    node_v_m: np.ndarray
+    node_theta: np.ndarray
+
+
+def solve_nodes_floor(
+    models: Sequence[BeamModel], cases: FloorCases, names: FloorNames = None
+) -> tuple[NodeSolution, ...]:
+    """``solve_nodes(models[k], cases[k], names[k])`` for every strip k, solved together.
+
+    ``names`` optionally names the cases of each strip in error messages (one sequence or
+    None per strip). Errors: those of ``solve_nodes`` for the first bad strip, prefixed
+    "model k: ".
+    """
+    fl, order = _solve(models, cases, names)
+    if fl is None:
+        return ()
+    st = fl.stations
+    f_case, f_st, f_m0, f_v0, f_j0 = free_term_arrays(
+        fl.st_start, fl.st_local_mm, fl.st_side, fl.frame.length_m, fl.table
+    )
+    st_off = fl.st_off.tolist()
+    free_off = np.searchsorted(f_st, fl.st_off).tolist()
+    node_off = fl.node_off.tolist()
+    out: list[NodeSolution | None] = [None] * len(order)
+    for k, (model, stations) in enumerate(zip(fl.models, st)):
+        e0, e1 = free_off[k], free_off[k + 1]
+        n0, n1 = node_off[k], node_off[k + 1]
+        nc = fl.n_cases[k]
+        free = FreeTerms(
+            case=f_case[e0:e1],
+            station=f_st[e0:e1] - st_off[k],
+            m0=f_m0[e0:e1],
+            v0=f_v0[e0:e1],
+            j0=f_j0[e0:e1],
+        )
+        node_m = fl.node_m[:nc, n0:n1]
+        out[order[k]] = NodeSolution(
+            model=model,
+            stations=stations,
+            free=free,
+            node_moment_knm=node_m,
+            elastic_node_moment_knm=node_m,
+            reactions_kn=fl.reactions[:nc, n0:n1],
+            node_v_m=fl.node_v_m[:nc, n0:n1],
+            node_theta_rad=fl.node_theta[:nc, n0:n1],
+        )
+    return tuple(out)  # type: ignore[arg-type]
+
+
+def solve_floor(
+    models: Sequence[BeamModel], cases: FloorCases, names: FloorNames = None
+) -> tuple[CaseResults, ...]:
+    """``solve(models[k], cases[k], names[k])`` for every strip k, solved together: every
+    case at every station of every strip, evaluated for the whole floor at once."""
+    fl, order = _solve(models, cases, names)
+    if fl is None:
+        return ()
+    node_d_mm = fl.node_v_m * 1000.0
+    _freeze(node_d_mm)
+    st_off, node_off = fl.st_off.tolist(), fl.node_off.tolist()
+    out: list[CaseResults | None] = [None] * len(order)
+    for g0, g1, (m, v, d) in _station_values(fl):
+        base = st_off[g0]
+        for k in range(g0, g1):
+            a, b = st_off[k] - base, st_off[k + 1] - base
+            n0, n1 = node_off[k], node_off[k + 1]
+            nc = fl.n_cases[k]
+            out[order[k]] = CaseResults(
+                stations=fl.stations[k],
+                m_knm=m[:, a:b],
+                v_kn=v[:, a:b],
+                deflection_mm=d[:, a:b],
+                reactions_kn=fl.reactions[:nc, n0:n1],
+                node_moment_knm=fl.node_m[:nc, n0:n1],
+                node_deflection_mm=node_d_mm[:nc, n0:n1],
+                node_rotation_rad=fl.node_theta[:nc, n0:n1],
+            )
+    return tuple(out)  # type: ignore[arg-type]
+
+
+def _freeze(*arrays: np.ndarray) -> None:
+    for a in arrays:
+        a.setflags(write=False)
+
+
+# --------------------------------------------------------------------------- stations
+
+
+def _station_values(fl: _Floor):
+    """(first strip, end strip, (M, V, deflection)) for each run of strips with the same
+    number of cases; each array (n_cases, stations of the run).
+
+    Within a segment M is the straight line between the end moments plus w x (L - x) / 2
+    for the line loads over the whole segment (w their sum per case), V is its derivative,
+    and the deflection is v + theta x - (M_l c1 + M_r c2 + w J) / EI, integrated twice from
+    the left node (c1 = x^2/2 - x^3/(6L), c2 = x^3/(6L), J = x^3 (2L - x) / 24), as in
+    ``analysis.stiffness``; point loads and partial line loads add their free terms. Each
+    is a sum of shapes times coefficients per segment and case: on the grid (x = L i/n) the
+    shapes are the same for every segment, so one matrix product gives every grid station;
+    the few stations off the grid (support faces, load points) are evaluated one by one.
+    """
+    frame, table = fl.frame, fl.table
+    n_cols = fl.node_m.shape[0]
+    left, right = frame.left, frame.left + 1
+    length = frame.length_m
+    full = full_line_loads(table, length)
+    w = np.zeros((n_cols, length.size))
+    np.add.at(w, (table.case[full], table.segment[full]), table.intensity[full])
+    k_ei = -1000.0 / fl.ei_el
+    m_l, m_r = fl.node_m[:, left], fl.node_m[:, right]
+    rows = {
+        "m_l": m_l,
+        "m_r": m_r,
+        "w": w,
+        "slope": (m_r - m_l) / length,
+        "v_l": fl.node_v_m[:, left] * 1000.0,
+        "th_l": fl.node_theta[:, left] * 1000.0,
+    }
+    coefficients = _grid_coefficients(rows, length, k_ei)
+    # Per station: its segment, and its column among the grid values of the floor (or
+    # its place among the stations off the grid).
+    seg = fl.st_seg
+    local = fl.st_local_mm
+    n_div = fl.n_div[seg]
+    l_mm = fl.length_mm[seg]
+    grid_i = np.rint(local / l_mm * n_div).astype(np.intp)
+    off = np.flatnonzero(local != l_mm * (grid_i / n_div))  # the grid of ``station_arrays``
+    grid_i[off] = 0
+    extra = _off_grid(rows, seg[off], local[off] / 1000.0, length, k_ei)
+    # Free terms of the other loads, at every station of their segments.
+    f_case, f_st, f_m0, f_v0, f_j0 = free_term_arrays(
+        fl.st_start, local, fl.st_side, length, _rows_of(table, ~full)
+    )
+    f_j0 = f_j0 * k_ei[seg[f_st]]
+    # One buffer for every output (large: cheap to map), each run's part of it in turn.
+    st_off, seg_off, n_cases = fl.st_off.tolist(), fl.seg_off.tolist(), fl.n_cases
+    el_div, st_start = fl.n_div.tolist(), fl.st_start.tolist()
+    scratch = np.empty(0)
+    n_st = np.diff(fl.st_off)
+    buffer = np.empty(3 * int(np.dot(n_st, np.array(n_cases, dtype=np.intp))))
+    used = 0
+    k = 0
+    while k < len(n_cases):
+        g1 = k + 1
+        key = (n_cases[k], el_div[seg_off[k]])
+        while g1 < len(n_cases) and (n_cases[g1], el_div[seg_off[g1]]) == key:
+            g1 += 1
+        nc, n = key
+        a, b = st_off[k], st_off[g1]
+        out = buffer[used : used + 3 * nc * (b - a)].reshape(3, nc, b - a)
+        used += out.size
+        if scratch.size < nc * _SEGMENTS * (n + 1):
+            scratch = np.empty(nc * _SEGMENTS * (n + 1))
+        _on_grid(coefficients, n, seg, grid_i, st_start, seg_off[k], seg_off[g1], out, a, scratch)
+        o0, o1 = np.searchsorted(off, [a, b])
+        if o1 > o0:
+            for o, x in zip(out, extra):
+                o[:, off[o0:o1] - a] = x[:nc, o0:o1]
+        f0, f1 = np.searchsorted(f_st, [a, b])
+        if f1 > f0:
+            where = (f_case[f0:f1], f_st[f0:f1] - a)
+            for o, vals in zip(out, (f_m0, f_v0, f_j0)):
+                np.add.at(o, where, vals[f0:f1])
+        out.setflags(write=False)
+        yield k, g1, (out[0], out[1], out[2])
+        k = g1
+
+
+def _rows_of(table: LoadTable, keep: np.ndarray) -> LoadTable:
+    return LoadTable(
+        n_cases=table.n_cases,
+        case=table.case[keep],
+        segment=table.segment[keep],
+        is_point=table.is_point[keep],
+        intensity=table.intensity[keep],
+        start_m=table.start_m[keep],
+        end_m=table.end_m[keep],
+    )
+
+
+# Segments evaluated on the grid at once: the grid values stay small (their memory is
+# reused) and each matrix product is small enough for one BLAS thread (its threads would
+# only wait for each other on a busy machine).
+_SEGMENTS = 256
+
+
+def _on_grid(
+    coefficients: tuple[np.ndarray, ...],
+    n: int,
+    seg: np.ndarray,
+    grid_i: np.ndarray,
+    st_start: list[int],
+    e0: int,
+    e1: int,
+    out: np.ndarray,
+    a: int,
+    scratch: np.ndarray,
+) -> None:
+    """(M, V, deflection) at the stations of segments e0:e1 into ``out`` (3, n_cases,
+    stations from station ``a``), from the grid values t = i / n of each segment (stations
+    off the grid get grid point 0 here: the caller overwrites them). ``scratch`` holds the
+    grid values of ``_SEGMENTS`` segments."""
+    shapes = _grid_shapes(n)
+    nc = out.shape[1]
+    for c0 in range(e0, e1, _SEGMENTS):
+        c1 = min(e1, c0 + _SEGMENTS)
+        s0, s1 = st_start[c0], st_start[c1]
+        col = (seg[s0:s1] - c0) * (n + 1) + grid_i[s0:s1]
+        size = nc * (c1 - c0) * (n + 1)
+        for q, (c, sh) in enumerate(zip(coefficients, shapes)):
+            g = scratch[:size]
+            np.matmul(c[:nc, c0:c1].reshape(-1, sh.shape[0]), sh, out=g.reshape(-1, n + 1))
+            np.take(g.reshape(nc, -1), col, axis=1, out=out[q, :, s0 - a : s1 - a], mode="clip")
+
+
+def _grid_coefficients(
+    rows: dict[str, np.ndarray], length: np.ndarray, k_ei: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Coefficients (n_cases, n_seg, n_terms) of M, V and deflection on the shapes of
+    ``_grid_shapes``, per segment and case."""
+    m_l, m_r, w = rows["m_l"], rows["m_r"], rows["w"]
+    l2 = length**2
+    k2 = k_ei * l2
+    return (
+        np.stack((m_l, m_r, w * (0.5 * l2)), axis=-1),
+        np.stack((rows["slope"], w * length), axis=-1),
+        np.stack((rows["v_l"], rows["th_l"] * length, m_l * k2, m_r * k2, w * (k2 * l2)), -1),
+    )
+
+
+def _grid_shapes(n: int) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Shapes (n_terms, n + 1) of M, V and deflection at t = x / L = i / n (see
+    ``_station_values``: x = t L)."""
+    t = np.arange(n + 1) / n
+    t3 = t**3
+    one = np.ones_like(t)
+    return (
+        np.stack((1.0 - t, t, t * (1.0 - t))),
+        np.stack((one, 0.5 - t)),
+        np.stack((one, t, 0.5 * t**2 - t3 / 6.0, t3 / 6.0, t3 * (2.0 - t) / 24.0)),
+    )
+
+
+def _off_grid(
+    rows: dict[str, np.ndarray],
+    seg: np.ndarray,
+    x: np.ndarray,
+    length: np.ndarray,
+    k_ei: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(M, V, deflection) at stations x (m) of segments ``seg`` of ``rows``, each
+    (n_cases, n_stations)."""
+    ln, k = length[seg], k_ei[seg]
+    x3 = x**3
+    c2 = x3 / (6.0 * ln)
+    g = {name: np.take(r, seg, axis=1) for name, r in rows.items()}
+    m = g["m_l"] * (1.0 - x / ln) + g["m_r"] * (x / ln) + g["w"] * (0.5 * x * (ln - x))
+    v = g["slope"] + g["w"] * (0.5 * ln - x)
+    d = g["v_l"] + g["th_l"] * x
+    d += g["m_l"] * ((0.5 * x**2 - c2) * k)
+    d += g["m_r"] * (c2 * k)
+    d += g["w"] * (x3 * (2.0 * ln - x) / 24.0 * k)
+    return m, v, d
+
+
+# --------------------------------------------------------------------------- the solve
+
+
+def _names_of(names: FloorNames, k: int) -> Sequence[str] | None:
+    return None if names is None else names[k]
+
+
+def _solve(
+    models: Sequence[BeamModel], cases: FloorCases, names: FloorNames
+) -> tuple[_Floor | None, list[int]]:
+    """The floor solve, strips ordered by their number of cases (stable), and that order
+    (None and [] for no strips)."""
+    models = tuple(models)
+    if len(cases) != len(models):
+        raise ValueError(f"{len(models)} models but {len(cases)} sets of cases: one per model")
+    if names is not None and len(names) != len(models):
+        raise ValueError(f"{len(models)} models but {len(names)} sets of case names")
+    for k, model in enumerate(models):
+        if not isinstance(model, BeamModel):
+            raise TypeError(f"model {k}: expected a BeamModel, got {type(model).__name__}")
+    try:
+        counts = [len(c) for c in cases]
+    except TypeError as exc:
+        raise TypeError(f"cases: each model needs a sequence of cases ({exc})") from None
+    order = sorted(range(len(models)), key=counts.__getitem__)
+    if not order:
+        return None, order
+    try:
+        return (
+            _floor(
+                tuple(models[i] for i in order),
+                [cases[i] for i in order],
+                None if names is None else [names[i] for i in order],
+            ),
+            order,
+        )
+    except _StripError as err:
+        # The first bad strip in the given order, worded as the single solver words it.
+        bad = order[err.index]
+        for i in range(bad + 1):
+            try:
+                solve_nodes(models[i], cases[i], _names_of(names, i))
+            except (ValueError, TypeError) as exc:
+                raise type(exc)(f"model {i}: {exc}") from None
+        raise err.kind(f"model {bad}: {err.message}") from None
+
+
+def _offsets(counts: np.ndarray) -> np.ndarray:
+    out = np.zeros(counts.size + 1, dtype=np.intp)
+    np.cumsum(counts, out=out[1:])
+    return out
+
+
+def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) -> _Floor:
+    n_models = len(models)
+    n_nodes = np.array([len(m.node_x_mm) for m in models], dtype=np.intp)
+    node_off = _offsets(n_nodes)
+    seg_off = node_off - np.arange(n_models + 1)
+    total = int(node_off[-1])
+    chain = itertools.chain.from_iterable
+    node_x = np.fromiter(chain(m.node_x_mm for m in models), float, total)
+    half = np.fromiter(chain(m.support_width_mm for m in models), float, total) / 2.0
+    codes = restraint_codes(list(chain(m.restraints for m in models)))
+    model_of_node = np.repeat(np.arange(n_models), n_nodes)
+    end = np.zeros(total, dtype=bool)
+    end[node_off[:-1]] = True
+    end[node_off[1:] - 1] = True
+    bad = ~end & (codes != 1)
+    if bad.any():
+        i = int(np.argmax(bad))
+        k = int(model_of_node[i])
+        raise _StripError(k, f"node {i - node_off[k]}: interior supports must be PINNED")
+    left = np.flatnonzero(~np.isin(np.arange(total), node_off[1:] - 1))
+    length_mm = node_x[left + 1] - node_x[left]
+    frame = Frame(length_m=length_mm / 1000.0, left=left, restraint=codes, end=end)
+    model_of_el = model_of_node[left]
+    ei_el = np.array([m.ei_knm2 for m in models], dtype=float)[model_of_el]
+    frac = np.array([m.station_spacing_fraction for m in models], dtype=float)
+    ok = (frac > 0.0) & (frac <= 1.0)
+    if not ok.all():
+        k = int(np.argmin(ok))
+        raise _StripError(k, f"station_spacing_fraction must be in (0, 1], got {frac[k]}")
+    n_div = np.maximum(1, np.ceil(1.0 / frac - 1e-9)).astype(np.intp)
+
+    n_cases = tuple(len(c) for c in cases)
+    n_cols = max(n_cases, default=0)
+    table = stacked_load_table(cases, n_cases, n_cols, n_nodes - 1, seg_off, length_mm)
+    if table is None:
+        table = _slow_table(models, cases, names, n_cols, seg_off)
+
+    # Stations of every strip.
+    st_seg, local, side, start = station_arrays(
+        length_mm, n_div[model_of_el], half[left], half[left + 1], table
+    )
+    st_off = start[seg_off]
+    x_mm = node_x[left][st_seg] + local
+    local_seg = st_seg - seg_off[model_of_el[st_seg]]
+    starts = _strip_starts(start, seg_off, st_off, n_nodes - 1)
+    _freeze(x_mm, local_seg, local, side, starts)
+    stations = _strip_stations(x_mm, local_seg, local, side, starts, st_off, seg_off)
+
+    # Stiffness: one block per strip, padded to the largest, factorised in lockstep.
+    ke = element_matrices(frame.length_m, ei_el)
+    free = frame.free_dofs()
+    band_k, band_c, band_v = band_entries(ke, frame, free)
+    dof_model = np.repeat(model_of_node, 2)[free]  # strip of each free DOF
+    n_free = np.bincount(dof_model, minlength=n_models)
+    red_off = _offsets(n_free)
+    red_j = np.arange(dof_model.size) - red_off[dof_model]  # position within its block
+    fe_el, f_full = load_vectors(frame, table)
+    d_full = np.zeros_like(f_full)
+    n_b = int(n_free.max(initial=0))
+    if n_b:
+        p = int(band_k.max(initial=0))
+        ab = np.zeros((p + 1, n_b, n_models))
+        ab[0] = np.arange(n_b)[:, None] >= n_free[None, :]  # padding: identity
+        np.add.at(ab, (band_k, red_j[band_c], dof_model[band_c]), band_v)
+        factor, singular = cholesky_banded_blocks(ab)
+        if singular.any():
+            k = int(np.argmax(singular))
+            raise _StripError(k, "the beam model is a mechanism (not enough supports)")
+        rhs = np.zeros((n_b, n_models, n_cols))
+        rhs[red_j, dof_model] = f_full[free]
+        d_full[free] = factor.solve(rhs)[red_j, dof_model]
+    node_m, reactions = node_results(frame, ke, d_full, fe_el)
+    node_arrays = [
+        np.ascontiguousarray(a.T) for a in (node_m, reactions, d_full[0::2], d_full[1::2])
+    ]
+    _freeze(*node_arrays)
+    return _Floor(
+        models,
+        n_cases,
+        node_off,
+        seg_off,
+        st_off,
+        frame,
+        ei_el,
+        length_mm,
+        n_div[model_of_el],
+        table,
+        st_seg,
+        local,
+        side,
+        start,
+        stations,
+        *node_arrays,
+    )
+
+
+def _strip_stations(
+    x_mm: np.ndarray,
+    local_seg: np.ndarray,
+    local_mm: np.ndarray,
+    side: np.ndarray,
+    starts: np.ndarray,
+    st_off: np.ndarray,
+    seg_off: np.ndarray,
+) -> tuple[Stations, ...]:
+    """Each strip's ``Stations``, views of the floor's arrays."""
+    out = []
+    st, sg = st_off.tolist(), seg_off.tolist()
+    for k in range(len(st) - 1):
+        a, b = st[k], st[k + 1]
+        s0 = sg[k] + k
+        out.append(
+            Stations(
+                x_mm=x_mm[a:b],
+                segment=local_seg[a:b],
+                local_mm=local_mm[a:b],
+                side=side[a:b],
+                start=starts[s0 : s0 + sg[k + 1] - sg[k] + 1],
+            )
+        )
+    return tuple(out)
+
+
+def _strip_starts(
+    start: np.ndarray, seg_off: np.ndarray, st_off: np.ndarray, n_seg: np.ndarray
+) -> np.ndarray:
+    """Each strip's ``Stations.start`` (n_seg + 1 entries, from 0), one after the other."""
+    counts = n_seg + 1
+    strip = np.repeat(np.arange(n_seg.size), counts)
+    within = np.arange(int(counts.sum())) - _offsets(counts)[strip]
+    return start[seg_off[strip] + within] - st_off[strip]
+
+
+# --------------------------------------------------------------------------- loads
+
+
+def _slow_table(
+    models: tuple[BeamModel, ...],
+    cases: FloorCases,
+    names: FloorNames,
+    n_cols: int,
+    seg_off: np.ndarray,
+) -> LoadTable:
+    """The floor's load table from ``load_table`` strip by strip (any load the single
+    solver accepts); the first bad strip raises."""
+    tables = []
+    for k, model in enumerate(models):
+        try:
+            tables.append(load_table(model, cases[k], _names_of(names, k)))
+        except (ValueError, TypeError) as exc:
+            raise _StripError(k, str(exc), type(exc)) from None
+    cat = np.concatenate
+    return LoadTable(
+        n_cases=n_cols,
+        case=cat([t.case for t in tables] + [np.zeros(0, np.intp)]),
+        segment=cat(
+            [t.segment + seg_off[k] for k, t in enumerate(tables)] + [np.zeros(0, np.intp)]
+        ),
+        is_point=cat([t.is_point for t in tables] + [np.zeros(0, bool)]),
+        intensity=cat([t.intensity for t in tables] + [np.zeros(0)]),
+        start_m=cat([t.start_m for t in tables] + [np.zeros(0)]),
+        end_m=cat([t.end_m for t in tables] + [np.zeros(0)]),
+    )

@@ -1,0 +1,240 @@
+"""The layout drawing of a build: the DXF file(s), their PNG previews and their read-back.
+
+One strip is one sheet. Up to :data:`SHEETS_PER_FILE` sheets go in one file,
+``<project-id>-layout.dxf``; a bigger project (a whole floor) is split, in strip order, into
+files of at most that many sheets, ``<project-id>-layout-01.dxf``, ``-02``, ... (sheets keep
+their numbers in the whole set, "sheet 57 of 500"). A file of hundreds of sheets is slow to
+open and to issue, and the split lets each file be drawn, written and read back in a worker
+process of its own, the drawing being most of the time a floor takes.
+
+The read-back (:func:`detailer.io.dxf_readback.readback` of every document as written) is
+returned with the files so that the build can audit the drawing against the schedule.
+"""
+
+from __future__ import annotations
+
+__all__ = [
+    "SHEETS_PER_FILE",
+    "DrawingSet",
+    "PendingDrawing",
+    "draw",
+    "drawing_file_names",
+    "start_drawing",
+]
+
+import io
+import math
+from collections.abc import Callable
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+from detailer import preview_workers
+from detailer.layout import ProjectDetail
+from detailer.parallel import fork_shares_memory, map_indexed, start_indexed
+from detailer.preview_workers import PreviewWorkers
+from detailer.progress import SILENT, Progress
+from detailer.record import RevisionRecord
+
+if TYPE_CHECKING:  # ezdxf and the writers are imported when a drawing is made
+    from detailer.io.dxf_readback import LayoutReadback
+
+#: Sheets per layout DXF file; more strips than this and the drawing is split into files.
+SHEETS_PER_FILE = preview_workers.SHEETS_PER_FILE
+
+
+@dataclass(frozen=True, slots=True)
+class DrawingSet:
+    files: tuple[tuple[str, bytes], ...]  # (file name, DXF bytes), in sheet order
+    previews: tuple[bytes, ...]  # PNG of every sheet in strip order; () when not rendered
+    readback: LayoutReadback  # every file read back, together
+
+
+def drawing_file_names(project_id: str, n_strips: int) -> tuple[tuple[str, range], ...]:
+    """(file name, strip indices) of each layout file, sheets shared out evenly."""
+    if n_strips <= SHEETS_PER_FILE:
+        return ((f"{project_id}-layout.dxf", range(n_strips)),)
+    parts = math.ceil(n_strips / SHEETS_PER_FILE)
+    size = math.ceil(n_strips / parts)
+    width = max(2, len(str(parts)))
+    return tuple(
+        (
+            f"{project_id}-layout-{k + 1:0{width}d}.dxf",
+            range(k * size, min(n_strips, (k + 1) * size)),
+        )
+        for k in range(parts)
+    )
+
+
+def _plan_task(context: tuple, index: int):
+    from detailer.io.dxf_sheet import choose_sheet
+
+    detail, revisions, changed = context
+    return choose_sheet(
+        detail.project, detail.strips[index], revisions=revisions, changed_set_ids=changed
+    )
+
+
+_PREVIEW_DOC: dict[int, object] = {}  # a spawned worker's parsed drawing, by id of its bytes
+
+
+def _preview_task(context: tuple, index: int) -> bytes:
+    from detailer.io.dxf_preview import render_png
+
+    dxf_bytes, doc, names = context
+    if doc is None:  # a spawned worker: parse the drawing once, then keep it
+        doc = _PREVIEW_DOC.get(id(dxf_bytes))
+        if doc is None:
+            import ezdxf
+
+            doc = ezdxf.read(io.StringIO(dxf_bytes.decode("utf-8")))
+            _PREVIEW_DOC.clear()
+            _PREVIEW_DOC[id(dxf_bytes)] = doc
+    return render_png(doc, names[index])
+
+
+def _part_task(context: tuple, index: int) -> tuple[bytes, LayoutReadback, tuple[bytes, ...]]:
+    """One file of a split drawing: its sheets chosen, drawn, written, read back, previewed."""
+    from detailer.io.dxf_readback import readback
+    from detailer.io.dxf_sheet import choose_sheet
+    from detailer.io.dxf_writer import build_layout, document_bytes, layout_name
+
+    detail, revisions, changed, parts, previews = context
+    name, strips = parts[index]
+    plans = [
+        choose_sheet(detail.project, detail.strips[i], revisions=revisions, changed_set_ids=changed)
+        for i in strips
+    ]
+    doc = build_layout(detail, revisions, changed, plans=plans, part=strips)
+    data = document_bytes(doc)
+    pngs: tuple[bytes, ...] = ()
+    if previews:
+        from detailer.io.dxf_preview import render_png
+
+        pngs = tuple(render_png(doc, layout_name(detail.strips[i].strip.id)) for i in strips)
+    return data, readback(doc, name), pngs
+
+
+class PendingDrawing:
+    """A drawing being made (:func:`start_drawing`); :meth:`finish` gives the DrawingSet."""
+
+    def __init__(self, finish: Callable[[], DrawingSet]) -> None:
+        self._finish = finish
+
+    def finish(self) -> DrawingSet:
+        return self._finish()
+
+
+def draw(
+    detail: ProjectDetail,
+    revisions: tuple[RevisionRecord, ...],
+    changed_set_ids: frozenset[tuple[str, str]],
+    *,
+    previews: bool,
+    workers: int = 0,
+    progress: Progress = SILENT,
+    preview_workers: PreviewWorkers | None = None,
+) -> DrawingSet:
+    """The layout file(s) of a detailed, marked project, over ``workers`` processes."""
+    return start_drawing(
+        detail,
+        revisions,
+        changed_set_ids,
+        previews=previews,
+        workers=workers,
+        progress=progress,
+        preview_workers=preview_workers,
+    ).finish()
+
+
+def start_drawing(
+    detail: ProjectDetail,
+    revisions: tuple[RevisionRecord, ...],
+    changed_set_ids: frozenset[tuple[str, str]],
+    *,
+    previews: bool,
+    workers: int = 0,
+    progress: Progress = SILENT,
+    preview_workers: PreviewWorkers | None = None,
+) -> PendingDrawing:
+    """Start the layout file(s): a drawing split into files is drawn by the workers while
+    this process goes on (e.g. with the report); one file is drawn at :meth:`finish`."""
+    n = len(detail.strips)
+    parts = drawing_file_names(detail.project.id, n)
+    if len(parts) > 1:
+        from detailer.io.dxf_readback import merge_readbacks
+
+        pending = start_indexed(
+            _part_task,
+            (detail, revisions, changed_set_ids, parts, previews),
+            len(parts),
+            workers=workers,
+        )
+
+        def finish_parts() -> DrawingSet:
+            progress.start("drawing", n)
+            results = pending.results(lambda k: progress.advance(len(parts[k][1])))
+            files = tuple(
+                (name, data) for (name, _), (data, _, _) in zip(parts, results, strict=True)
+            )
+            back = merge_readbacks([rb for _, rb, _ in results], " + ".join(m for m, _ in parts))
+            return DrawingSet(files, tuple(p for _, _, pngs in results for p in pngs), back)
+
+        return PendingDrawing(finish_parts)
+    return PendingDrawing(
+        lambda: _one_file(
+            detail,
+            revisions,
+            changed_set_ids,
+            parts[0][0],
+            previews,
+            workers,
+            progress,
+            preview_workers,
+        )
+    )
+
+
+def _one_file(
+    detail: ProjectDetail,
+    revisions: tuple[RevisionRecord, ...],
+    changed_set_ids: frozenset[tuple[str, str]],
+    name: str,
+    previews: bool,
+    workers: int,
+    progress: Progress,
+    preview_workers: PreviewWorkers | None,
+) -> DrawingSet:
+    from detailer.io.dxf_readback import readback
+    from detailer.io.dxf_writer import build_layout, document_bytes, layout_name
+
+    n = len(detail.strips)
+    progress.start("sheets", n)
+    plans = map_indexed(
+        _plan_task,
+        (detail, revisions, changed_set_ids),
+        n,
+        workers=workers,
+        on_done=lambda _: progress.advance(),
+    )
+    doc = build_layout(detail, revisions, changed_set_ids, plans=plans)
+    data = document_bytes(doc, workers=workers)
+    back = readback(doc, name)
+    pngs: tuple[bytes, ...] = ()
+    if previews and preview_workers is not None:
+        progress.start("previews", n)
+        pngs = preview_workers.render(data, tuple(layout_name(sd.strip.id) for sd in detail.strips))
+        progress.advance(n)
+    elif previews:
+        names = tuple(layout_name(sd.strip.id) for sd in detail.strips)
+        progress.start("previews", n)
+        shared = doc if fork_shares_memory() else None
+        pngs = tuple(
+            map_indexed(
+                _preview_task,
+                (data, shared, names),
+                n,
+                workers=workers,
+                on_done=lambda _: progress.advance(),
+            )
+        )
+    return DrawingSet(((name, data),), pngs, back)
