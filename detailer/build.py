@@ -30,7 +30,13 @@ from detailer.preview_workers import (
 )
 from detailer.progress import SILENT, Progress
 from detailer.project import load_project
-from detailer.record import ProjectRecord, RevisionRecord, build_record, record_to_jsonable
+from detailer.record import (
+    ProjectRecord,
+    RevisionRecord,
+    build_record,
+    record_to_jsonable,
+    station_labels,
+)
 from detailer.revisions import (
     RevisionDiff,
     choose_revision,
@@ -98,13 +104,15 @@ class Issue:
     not_detailed: tuple[tuple[str, str], ...] = ()  # (strip id, reason) of strips left out
 
 
-def _detail_task(context: tuple[Project, DesignCode], index: int) -> StripDetail | tuple[str, str]:
+def _detail_task(context: tuple[Project, DesignCode], index: int) -> tuple:
+    """(detail, its record's station labels), or (strip id, reason) when it fails."""
     project, code = context
     strip = project.strips[index]
     try:
-        return detail_strip(project, strip, code)
+        detail = detail_strip(project, strip, code)
     except DesignError as exc:
         return (strip.id, str(exc))
+    return (detail, station_labels(detail))
 
 
 def detail_strips(
@@ -113,11 +121,14 @@ def detail_strips(
     *,
     workers: int = 0,
     progress: Progress = SILENT,
-) -> tuple[tuple[StripDetail, ...], tuple[tuple[str, str], ...]]:
+) -> tuple[
+    tuple[StripDetail, ...], tuple[tuple[str, str], ...], dict[str, dict[str, tuple[str, ...]]]
+]:
     """Design and detail every strip (over ``workers`` processes; 0: in this one).
 
     Returns the detailed strips and the (strip id, reason) of those that cannot be designed,
-    both in project-file order; one strip failing does not stop the others."""
+    both in project-file order (one strip failing does not stop the others), and the station
+    labels of each detailed strip's record (:func:`detailer.record.station_labels`)."""
     code = code or default_code(project)
     progress.start("detailing", len(project.strips))
     results = map_indexed(
@@ -127,9 +138,10 @@ def detail_strips(
         workers=workers,
         on_done=lambda _: progress.advance(),
     )
-    details = tuple(r for r in results if isinstance(r, StripDetail))
-    failures = tuple(r for r in results if not isinstance(r, StripDetail))
-    return details, failures
+    details = tuple(r[0] for r in results if isinstance(r[0], StripDetail))
+    failures = tuple(r for r in results if not isinstance(r[0], StripDetail))
+    labels = {r[0].strip.id: r[1] for r in results if isinstance(r[0], StripDetail)}
+    return details, failures, labels
 
 
 def _marked(
@@ -156,7 +168,7 @@ def detail_with_marks(
 ) -> ProjectDetail:
     """Design and detail every strip, then give every bar set its mark; ``BuildFailed`` when
     any strip cannot be designed (a build leaves such strips out instead: :func:`make_issue`)."""
-    details, failures = detail_strips(project, code)
+    details, failures, _ = detail_strips(project, code)
     if failures:
         raise BuildFailed(failures)
     return _marked(project, details, previous, withdrawn)
@@ -179,13 +191,13 @@ def make_issue(
     """
     code = code or default_code(project)
     members = {s.id: s.members for s in project.strips}
-    details, failed = detail_strips(project, code, workers=workers, progress=progress)
+    details, failed, labels = detail_strips(project, code, workers=workers, progress=progress)
     if not details:
         raise BuildFailed(failed)
     if previous is None:
         detail = _marked(project, details)
         schedule = schedule_for_project(detail, members=members)
-        record = build_record(detail, schedule=schedule, not_detailed=failed)
+        record = build_record(detail, schedule=schedule, not_detailed=failed, station_labels=labels)
         return Issue(detail, schedule, record, "", False, "first issue", "", None, failed)
     data = previous.data
     table, earlier_withdrawn = previous_marks(data)
@@ -209,6 +221,7 @@ def make_issue(
         history=history[:-1],
         description=history[-1].description,
         not_detailed=failed,
+        station_labels=labels,
     )
     if same_content(data, record_to_jsonable(same)):
         return Issue(detail, schedule, same, previous.revision, True, "no change", "", None, failed)
@@ -218,7 +231,12 @@ def make_issue(
     )
     schedule = schedule_for_project(detail, members=members, previous=old_rows)
     record = build_record(
-        detail, withdrawn_marks=gone, schedule=schedule, history=history, not_detailed=failed
+        detail,
+        withdrawn_marks=gone,
+        schedule=schedule,
+        history=history,
+        not_detailed=failed,
+        station_labels=labels,
     )
     diff = compare_records(view_of(data), view_of(record_to_jsonable(record)))
     text = describe(diff)

@@ -37,17 +37,13 @@ __all__ = [
     "build_record",
     "mark_records",
     "record_to_jsonable",
+    "station_labels",
 ]
 
-import dataclasses
-import enum
-import functools
 import math
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any, Final
-
-import numpy as np
+from typing import Final
 
 from analysis.arrangements import PatternRule as AnalysisPatternRule
 from analysis.arrangements import alternate_sets, equations, make_arrangement
@@ -63,6 +59,7 @@ from detailer.layout import (
     ZoneDesign,
 )
 from detailer.marks import layer_sort_key, mark_table
+from detailer.record_json import record_to_jsonable
 from detailer.schedule import Schedule, schedule_rows, summarise
 
 #: Version of the record's layout; raised when a field changes meaning or is removed.
@@ -421,10 +418,24 @@ def _actions(detail: StripDetail) -> ActionsRecord:
     )
 
 
-def _stations(detail: StripDetail) -> tuple[StationRecord, ...]:
+#: The station quantities whose governing arrangement the record names.
+LABELLED: Final = ("m_max", "m_min", "v_max", "v_min")
+
+
+def station_labels(detail: StripDetail) -> dict[str, tuple[str, ...]]:
+    """The governing arrangement's label at every ULS station, per quantity of
+    :data:`LABELLED` (the costly part of a strip's record: worth working out beside the
+    strip's design, in its worker, and passing to :func:`build_record`)."""
+    env = detail.analysis.uls
+    return {kind: env.governing_labels(kind) for kind in LABELLED}
+
+
+def _stations(
+    detail: StripDetail, labels: Mapping[str, tuple[str, ...]] | None = None
+) -> tuple[StationRecord, ...]:
     env = detail.analysis.uls
     st = env.stations
-    by = {kind: env.governing_labels(kind) for kind in ("m_max", "m_min", "v_max", "v_min")}
+    by = labels if labels is not None else station_labels(detail)
     out = []
     for i in range(len(st)):
         out.append(
@@ -474,7 +485,7 @@ def bar_set_record(b: BarSet) -> BarSetRecord:
     )
 
 
-def _strip(detail: StripDetail) -> StripRecord:
+def _strip(detail: StripDetail, labels: Mapping[str, tuple[str, ...]] | None = None) -> StripRecord:
     s = detail.strip
     return StripRecord(
         id=s.id,
@@ -491,7 +502,7 @@ def _strip(detail: StripDetail) -> StripRecord:
         concrete_density_kn_per_m3=s.concrete_density_kn_per_m3,
         segments=_segments(detail),
         actions=_actions(detail),
-        envelope=_stations(detail),
+        envelope=_stations(detail, labels),
         zones=detail.zones,
         bar_sets=tuple(bar_set_record(b) for b in detail.bar_sets),
         anchorage=detail.anchorage,
@@ -526,6 +537,7 @@ def build_record(
     history: Sequence[RevisionRecord] = (),
     description: str = "first issue",
     not_detailed: Sequence[tuple[str, str]] = (),
+    station_labels: Mapping[str, Mapping[str, tuple[str, ...]]] | None = None,
 ) -> ProjectRecord:
     """The record of a detailed project whose bar sets carry their marks.
 
@@ -533,8 +545,11 @@ def build_record(
     to another bar; see :func:`detailer.marks.withdrawn_marks`). ``schedule``: the issued
     schedule, whose rows (with their revision letters) are recorded; ``history``: the earlier
     issues, to which this one is added with ``description``; ``not_detailed``: (strip id,
-    reason) of the strips that could not be designed and are left out of this issue.
+    reason) of the strips that could not be designed and are left out of this issue;
+    ``station_labels``: :func:`station_labels` of some or all strips, by strip id, when
+    already worked out.
     """
+    labels = station_labels or {}
     p = detail.project
     m = p.materials
     bar_sets = [s.bar_sets for s in detail.strips]
@@ -566,7 +581,7 @@ def build_record(
             exposure_class=m.exposure_class,
             density_kn_per_m3=m.density_kn_per_m3,
         ),
-        strips=tuple(_strip(s) for s in detail.strips),
+        strips=tuple(_strip(s, labels.get(s.strip.id)) for s in detail.strips),
         marks=mark_records(bar_sets),
         withdrawn_marks=tuple(withdrawn_marks),
         total_mass_kg=math.fsum(line.mass_kg for line in summary),
@@ -589,92 +604,3 @@ def build_record(
         ),
         not_detailed=tuple(NotDetailedRecord(strip_id=i, reason=r) for i, r in not_detailed),
     )
-
-
-# --------------------------------------------------------------------------------------------
-# To JSON-ready data
-
-# Decimal places by the unit suffix of a field name; dimensionless floats get _DEFAULT_DP.
-_DP_BY_SUFFIX: Final[tuple[tuple[str, int], ...]] = (
-    ("_mm2_per_m", 1),
-    ("_mm2", 1),
-    ("_kg_per_m", 4),
-    ("_mm", 1),
-    ("_kg", 3),
-    ("_knm_per_m", 3),
-    ("_knm", 3),
-    ("_kn_per_m2", 3),
-    ("_kn_per_m3", 3),
-    ("_kn_per_m", 3),
-    ("_kn", 3),
-    ("_mpa", 3),
-)
-_DEFAULT_DP: Final = 4
-_OBJECT_FIELDS: Final = frozenset({"dims_mm"})  # (name, value) pairs written as a JSON object
-
-
-@functools.cache
-def _decimals(field_name: str) -> int:
-    for suffix, dp in _DP_BY_SUFFIX:
-        if field_name.endswith(suffix):
-            return dp
-    return _DEFAULT_DP
-
-
-def _number(value: float, dp: int) -> float | int | None:
-    x = float(value)
-    if not math.isfinite(x):
-        return None
-    r = round(x, dp) + 0.0  # + 0.0 turns -0.0 into 0.0
-    if dp <= 1 and r == int(r):
-        return int(r)  # whole mm written as integers
-    return r
-
-
-@functools.cache
-def _field_names(cls: type) -> tuple[str, ...] | None:
-    """The field names of a dataclass type, None for any other type (cached per type)."""
-    if dataclasses.is_dataclass(cls):
-        return tuple(f.name for f in dataclasses.fields(cls))
-    return None
-
-
-def _convert(value: Any, name: str) -> Any:
-    kind = type(value)  # exact types first: most of a record is plain floats and strings
-    if kind is float:
-        return _number(value, _decimals(name))
-    if kind is str or kind is int or kind is bool or value is None:
-        return value
-    if isinstance(value, (bool, np.bool_)):
-        return bool(value)
-    if isinstance(value, enum.Enum):
-        return _convert(value.value, name)
-    if isinstance(value, (int, np.integer)):
-        return int(value)
-    if isinstance(value, (float, np.floating)):
-        return _number(value, _decimals(name))
-    if value is None or isinstance(value, str):
-        return value
-    names = _field_names(type(value))
-    if names is not None:
-        out = {n: _convert(getattr(value, n), n) for n in names}
-        if isinstance(value, Check):  # a property, wanted in the record
-            out["utilisation"] = _number(value.utilisation, _DEFAULT_DP)
-        return out
-    if name in _OBJECT_FIELDS:
-        return {str(k): _convert(v, name) for k, v in value}
-    if isinstance(value, Mapping):
-        return {str(k): _convert(v, name) for k, v in value.items()}
-    if isinstance(value, (tuple, list, np.ndarray)):
-        return [_convert(v, name) for v in value]
-    raise TypeError(f"cannot put {type(value).__name__} ({name}) in the record")
-
-
-def record_to_jsonable(record: ProjectRecord) -> dict[str, Any]:
-    """Plain dicts, lists, str, int, float, bool and None; keys in field order.
-
-    Floats are rounded by the unit suffix of their field name (mm to 0.1 mm, whole mm as
-    integers; mm2/m to 0.1; kN, kNm, MPa, kN/m2 to 0.001; kg to 0.001; other numbers to
-    0.0001); infinite values become null.
-    """
-    return _convert(record, "")
