@@ -67,23 +67,18 @@ class BandedCholesky:
             raise ValueError(f"right-hand side has {b.shape[0]} rows, the matrix has {self.n}")
         y = np.array(b.reshape(self.n, -1), dtype=float, order="C")
         n, p = self.n, self.bandwidth
-        diag = self.lower[0]
-        # rows[j, t] = L[j, j - p + t]: the sub-diagonal entries of row j, left to right.
-        rows = np.zeros((n, p))
-        for k in range(1, min(p, n - 1) + 1):
-            rows[k:, p - k] = self.lower[k, : n - k]
-        # Forward substitution L y = b.
-        for j in range(n):
-            lo = max(0, j - p)
-            if j > lo:
-                y[j] -= rows[j, p - (j - lo) :] @ y[lo:j]
-            y[j] /= diag[j]
-        # Back substitution L^T x = y.
-        for j in range(n - 1, -1, -1):
-            hi = min(n, j + p + 1)
-            if hi > j + 1:
-                y[j] -= self.lower[1 : hi - j, j] @ y[j + 1 : hi]
-            y[j] /= diag[j]
+        low = self.lower
+        # Row by row, one sub-diagonal at a time in a fixed order: the same arithmetic as
+        # ``BlockBandedCholesky.solve``, so a beam solved alone or in a floor agrees bit
+        # for bit.
+        for j in range(n):  # forward substitution L y = b
+            for k in range(1, min(p, j) + 1):
+                y[j] -= low[k, j - k] * y[j - k]
+            y[j] /= low[0, j]
+        for j in range(n - 1, -1, -1):  # back substitution L^T x = y
+            for k in range(1, min(p, n - 1 - j) + 1):
+                y[j] -= low[k, j] * y[j + k]
+            y[j] /= low[0, j]
         return y[:, 0] if single else y
 
 

@@ -4,11 +4,16 @@ Every strip (a ``BeamModel``) keeps its own DOFs, a disjoint range of the floor'
 own EI; the strips never couple, so the floor's stiffness is block-diagonal and banded. Its
 blocks are factorised in lockstep (``analysis.banded.cholesky_banded_blocks``: column j of
 every block at once) and every strip's load cases are right-hand-side columns; a strip with
-fewer cases than the most gets zero columns. Loads are validated, stations built, end
-actions, node moments, reactions and station values computed for all strips together with
-the formulas of the single-strip solver (``analysis.stiffness``, ``analysis.stations``), so
-each strip's result equals ``solve_nodes`` / ``solve`` to round-off. Only the per-strip
-result objects are made one strip at a time, as views of the floor's arrays.
+fewer cases than the most gets zero columns (strips are taken in order of their number of
+cases, so the station values of a run of strips with the same number carry none). Loads are
+validated, stations built, end actions, node moments, reactions and free terms computed for
+all strips together, by the functions of the single-strip solver (``analysis.stiffness``,
+``analysis.stations``) with the same arithmetic in the same order: ``solve_nodes_floor``
+gives every strip bit for bit what ``solve_nodes`` gives it, so envelopes built on either
+pick the same arrangement even where two tie. ``solve_floor`` then evaluates every station
+of every case by matrix products on the grid of each segment (``_station_values``), which
+agrees with ``solve`` to round-off. Only the per-strip result objects are made one strip
+at a time, as views of the floor's arrays.
 
 The point is speed for many small strips (a floor of hundreds of 3-6 span strips): the cost
 of the single solver is per call, not per DOF. Errors are those of the single solver for
@@ -18,7 +23,7 @@ the first bad strip, prefixed "model k: ".
 from __future__ import annotations
 
 import itertools
-from collections.abc import Sequence
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -141,25 +146,25 @@ def solve_floor(
     fl, order = _solve(models, cases, names)
     if fl is None:
         return ()
-    node_d_mm = fl.node_v_m * 1000.0
-    _freeze(node_d_mm)
-    st_off, node_off = fl.st_off.tolist(), fl.node_off.tolist()
+    # Reactions, moments, deflections (mm) and rotations of the nodes, one array.
+    nodes = np.stack((fl.reactions, fl.node_m, fl.node_v_m * 1000.0, fl.node_theta))
+    _freeze(nodes)
+    st_off, node_off, n_cases = fl.st_off.tolist(), fl.node_off.tolist(), fl.n_cases
     out: list[CaseResults | None] = [None] * len(order)
-    for g0, g1, (m, v, d) in _station_values(fl):
+    for g0, g1, values in _station_values(fl):
         base = st_off[g0]
         for k in range(g0, g1):
-            a, b = st_off[k] - base, st_off[k + 1] - base
-            n0, n1 = node_off[k], node_off[k + 1]
-            nc = fl.n_cases[k]
+            at = values[:, :, st_off[k] - base : st_off[k + 1] - base]
+            nd = nodes[:, : n_cases[k], node_off[k] : node_off[k + 1]]
             out[order[k]] = CaseResults(
                 stations=fl.stations[k],
-                m_knm=m[:, a:b],
-                v_kn=v[:, a:b],
-                deflection_mm=d[:, a:b],
-                reactions_kn=fl.reactions[:nc, n0:n1],
-                node_moment_knm=fl.node_m[:nc, n0:n1],
-                node_deflection_mm=node_d_mm[:nc, n0:n1],
-                node_rotation_rad=fl.node_theta[:nc, n0:n1],
+                m_knm=at[0],
+                v_kn=at[1],
+                deflection_mm=at[2],
+                reactions_kn=nd[0],
+                node_moment_knm=nd[1],
+                node_deflection_mm=nd[2],
+                node_rotation_rad=nd[3],
             )
     return tuple(out)  # type: ignore[arg-type]
 
@@ -172,9 +177,11 @@ def _freeze(*arrays: np.ndarray) -> None:
 # --------------------------------------------------------------------------- stations
 
 
-def _station_values(fl: _Floor):
-    """(first strip, end strip, (M, V, deflection)) for each run of strips with the same
-    number of cases; each array (n_cases, stations of the run).
+def _station_values(
+    fl: _Floor,
+) -> Iterator[tuple[int, int, np.ndarray]]:
+    """(first strip, end strip, values) for each run of strips with the same number of
+    cases and grid; values (3, n_cases, stations of the run): M, V and deflection.
 
     Within a segment M is the straight line between the end moments plus w x (L - x) / 2
     for the line loads over the whole segment (w their sum per case), V is its derivative,
@@ -203,8 +210,7 @@ def _station_values(fl: _Floor):
         "th_l": fl.node_theta[:, left] * 1000.0,
     }
     coefficients = _grid_coefficients(rows, length, k_ei)
-    # Per station: its segment, and its column among the grid values of the floor (or
-    # its place among the stations off the grid).
+    # Per station: its grid point (stations off the grid are evaluated on their own).
     seg = fl.st_seg
     local = fl.st_local_mm
     n_div = fl.n_div[seg]
@@ -218,7 +224,7 @@ def _station_values(fl: _Floor):
         fl.st_start, local, fl.st_side, length, _rows_of(table, ~full)
     )
     f_j0 = f_j0 * k_ei[seg[f_st]]
-    # One buffer for every output (large: cheap to map), each run's part of it in turn.
+    # One buffer for every output, each run's part of it in turn.
     st_off, seg_off, n_cases = fl.st_off.tolist(), fl.seg_off.tolist(), fl.n_cases
     el_div, st_start = fl.n_div.tolist(), fl.st_start.tolist()
     scratch = np.empty(0)
@@ -248,7 +254,7 @@ def _station_values(fl: _Floor):
             for o, vals in zip(out, (f_m0, f_v0, f_j0)):
                 np.add.at(o, where, vals[f0:f1])
         out.setflags(write=False)
-        yield k, g1, (out[0], out[1], out[2])
+        yield k, g1, out
         k = g1
 
 
@@ -288,6 +294,8 @@ def _on_grid(
     grid values of ``_SEGMENTS`` segments."""
     shapes = _grid_shapes(n)
     nc = out.shape[1]
+    if nc == 0:
+        return
     for c0 in range(e0, e1, _SEGMENTS):
         c1 = min(e1, c0 + _SEGMENTS)
         s0, s1 = st_start[c0], st_start[c1]
@@ -421,7 +429,9 @@ def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) 
         i = int(np.argmax(bad))
         k = int(model_of_node[i])
         raise _StripError(k, f"node {i - node_off[k]}: interior supports must be PINNED")
-    left = np.flatnonzero(~np.isin(np.arange(total), node_off[1:] - 1))
+    has_right = np.ones(total, dtype=bool)
+    has_right[node_off[1:] - 1] = False
+    left = np.flatnonzero(has_right)  # the left node of every element
     length_mm = node_x[left + 1] - node_x[left]
     frame = Frame(length_m=length_mm / 1000.0, left=left, restraint=codes, end=end)
     model_of_el = model_of_node[left]

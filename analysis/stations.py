@@ -217,7 +217,9 @@ def stacked_load_table(
     if not (
         set(map(type, seg_l)) <= {int}
         and set(map(type, q_w)) | set(map(type, q_p)) | set(map(type, a_p)) <= _NUMBER
-        and set(map(type, lo_w)) | set(map(type, hi_w)) <= _NUMBER_OR_NONE
+        and all(
+            v.count(None) == len(v) or set(map(type, v)) <= _NUMBER_OR_NONE for v in (lo_w, hi_w)
+        )
     ):
         return None
     n_loads = len(flat)
@@ -316,11 +318,6 @@ def station_arrays(
     """
     n_seg = lengths_mm.size
     tol = POSITION_TOL_MM
-    counts = n_div + 1
-    first = np.cumsum(counts) - counts
-    g_seg = np.repeat(np.arange(n_seg), counts)
-    step = np.arange(g_seg.size) - np.repeat(first, counts)
-    g_pos = np.repeat(lengths_mm, counts) * (step / np.repeat(n_div, counts))
     # The other positions, in this order: support faces that fall inside a segment, load
     # points, and the ends of line loads not at the ends of their segment (those coincide
     # with grid points and change nothing).
@@ -346,13 +343,16 @@ def station_arrays(
     e_pt = np.zeros(e_seg.size, dtype=bool)
     n_faces = int(left_face.sum() + right_face.sum())
     e_pt[n_faces : n_faces + int(lo_in.sum())] = table.is_point[lo_in]
-    g_key = key_off[g_seg] + np.round(g_pos / tol).astype(np.int64)
     e_key = key_off[e_seg] + np.round(e_pos / tol).astype(np.int64)
+    g_seg, g_pos, g_key = _grid(lengths_mm, n_div, key_off)
     # Groups of equal (segment, key) are one station; its position is that of the group's
     # first entry, point loads first, then in the order above (the grid first of all).
-    keep = np.ones(g_key.size, dtype=bool)
-    keep[1:] = g_key[1:] != g_key[:-1]
-    useg, upos, ukey = g_seg[keep], g_pos[keep], g_key[keep]
+    if n_seg and (lengths_mm / n_div).min() > 2.0 * tol:
+        useg, upos, ukey = g_seg, g_pos, g_key  # grid points a key apart at least
+    else:
+        keep = np.ones(g_key.size, dtype=bool)
+        keep[1:] = g_key[1:] != g_key[:-1]
+        useg, upos, ukey = g_seg[keep], g_pos[keep], g_key[keep]
     upt = np.zeros(useg.size, dtype=bool)
     order = np.argsort(e_key * 2 + ~e_pt, kind="stable")
     e_key, e_seg, e_pos, e_pt = e_key[order], e_seg[order], e_pos[order], e_pt[order]
@@ -365,9 +365,7 @@ def station_arrays(
     upos[hit] = e_pos[on_grid & e_pt]
     upt[hit] = True
     new = ~on_grid
-    useg = np.insert(useg, at[new], e_seg[new])
-    upos = np.insert(upos, at[new], e_pos[new])
-    upt = np.insert(upt, at[new], e_pt[new])
+    useg, upos, upt = _insert(at[new], (useg, upos, upt), (e_seg[new], e_pos[new], e_pt[new]))
     ulen = lengths_mm[useg]
     at_start = upos <= tol
     at_end = upos >= ulen - tol
@@ -377,11 +375,51 @@ def station_arrays(
     # A point load inside a segment doubles its station: the limits from left and right.
     double = np.flatnonzero(upt & ~at_start & ~at_end)
     side_u[double] = -1
-    st_seg = np.insert(useg, double + 1, useg[double])
-    st_pos = np.insert(upos, double + 1, upos[double])
-    side = np.insert(side_u, double + 1, 1)
+    st_seg, st_pos, side = _insert(
+        double + 1, (useg, upos, side_u), (useg[double], upos[double], np.int8(1))
+    )
     start = np.searchsorted(st_seg, np.arange(n_seg + 1)).astype(np.intp)
     return st_seg.astype(np.intp), st_pos, side, start
+
+
+def _insert(
+    at: np.ndarray, arrays: tuple[np.ndarray, ...], values: tuple[np.ndarray | np.generic, ...]
+) -> tuple[np.ndarray, ...]:
+    """``np.insert(a, at, v)`` for each array and its values, ``at`` ascending (the new
+    entries' places worked out once)."""
+    if not at.size:
+        return arrays
+    new = at + np.arange(at.size)
+    old = np.ones(arrays[0].size + at.size, dtype=bool)
+    old[new] = False
+    out = []
+    for a, v in zip(arrays, values):
+        r = np.empty(old.size, dtype=a.dtype)
+        r[old] = a
+        r[new] = v
+        out.append(r)
+    return tuple(out)
+
+
+def _grid(
+    lengths_mm: np.ndarray, n_div: np.ndarray, key_off: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(segment, position, key) of the grid points L i / n, segment by segment."""
+    n_seg = lengths_mm.size
+    n = int(n_div[0]) if n_seg else 1
+    if n_seg and (n_div == n).all():  # one spacing for every segment: one product
+        g_pos = lengths_mm[:, None] * (np.arange(n + 1) / n)[None, :]
+        g_seg = np.repeat(np.arange(n_seg), n + 1)
+    else:
+        counts = n_div + 1
+        g_seg = np.repeat(np.arange(n_seg), counts)
+        step = np.arange(g_seg.size) - np.repeat(np.cumsum(counts) - counts, counts)
+        g_pos = np.repeat(lengths_mm, counts) * (step / np.repeat(n_div, counts))
+    key = g_pos / POSITION_TOL_MM
+    np.round(key, out=key)
+    g_key = key.astype(np.int64)
+    g_key += key_off[:-1, None] if g_key.ndim == 2 else key_off[g_seg]
+    return g_seg, g_pos.ravel(), g_key.ravel()
 
 
 @dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality

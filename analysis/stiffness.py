@@ -341,7 +341,8 @@ def load_vectors(frame: Frame, table: LoadTable) -> tuple[np.ndarray, np.ndarray
     fea = _fixed_end_actions(table, frame.length_m)  # (n_loads, 4)
     # Summed per (element, action, case) in table order.
     flat = (table.segment[:, None] * 4 + np.arange(4)) * n_cases + table.case[:, None]
-    fe_el = np.bincount(flat.ravel(), fea.ravel(), n_el * 4 * n_cases).reshape(n_el, 4, n_cases)
+    fe_el = np.bincount(flat.ravel(), fea.ravel(), n_el * 4 * n_cases).astype(float, copy=False)
+    fe_el = fe_el.reshape(n_el, 4, n_cases)
     f_full = np.zeros((frame.n_nodes, 2, n_cases))
     f_full[frame.left] -= fe_el[:, :2]
     f_full[frame.left + 1] -= fe_el[:, 2:]
@@ -353,8 +354,12 @@ def node_results(
 ) -> tuple[np.ndarray, np.ndarray]:
     """Node moments and reactions, each (n_nodes, n_cases), from the DOF values
     (2 n_nodes, n_cases) and the fixed-end actions."""
-    # Element end actions f = k d + fixed-end actions.
-    f_el = np.matmul(ke, d_full[frame.dofs()]) + fe_el
+    # Element end actions f = k d + fixed-end actions (term by term in a fixed order, the
+    # same for any number of cases: one beam or a floor agree bit for bit).
+    d_el = d_full[frame.dofs()]  # (n_el, 4, n_cases)
+    f_el = fe_el.copy()
+    for c in range(4):
+        f_el += ke[:, :, c, None] * d_el[:, None, c, :]
     left, right = frame.left, frame.left + 1
     # M(0) is the action along +theta at the left node, M(L) minus that at the right node;
     # a node between two elements takes the mean of the two.

@@ -48,6 +48,7 @@ from detailer.revisions import (
     view_of,
 )
 from detailer.schedule import Schedule, schedule_for_project
+from detailer.strip_analysis import StripAnalysis, analyse_strips
 
 DEFAULT_OUTPUT_ROOT = Path("output")
 
@@ -104,12 +105,12 @@ class Issue:
     not_detailed: tuple[tuple[str, str], ...] = ()  # (strip id, reason) of strips left out
 
 
-def _detail_task(context: tuple[Project, DesignCode], index: int) -> tuple:
+def _detail_task(context: tuple, index: int) -> tuple:
     """(detail, its record's station labels), or (strip id, reason) when it fails."""
-    project, code = context
+    project, code, analyses = context
     strip = project.strips[index]
     try:
-        detail = detail_strip(project, strip, code)
+        detail = detail_strip(project, strip, code, analyses[index] if analyses else None)
     except DesignError as exc:
         return (strip.id, str(exc))
     return (detail, station_labels(detail))
@@ -131,9 +132,13 @@ def detail_strips(
     labels of each detailed strip's record (:func:`detailer.record.station_labels`)."""
     code = code or default_code(project)
     progress.start("detailing", len(project.strips))
+    try:  # every strip's analysis in one floor solve; else each strip on its own, below
+        analyses: tuple[StripAnalysis, ...] | None = analyse_strips(project, project.strips)
+    except (DesignError, ValueError):
+        analyses = None
     results = map_indexed(
         _detail_task,
-        (project, code),
+        (project, code, analyses),
         len(project.strips),
         workers=workers,
         on_done=lambda _: progress.advance(),

@@ -129,8 +129,12 @@ def _anchorages(
     return Anchorages(l_bd, l_0, l_0_all)
 
 
-def detail_strip(project: Project, strip: Strip, code: DesignCode) -> StripDetail:
-    sa = analyse_strip(project, strip)
+def detail_strip(
+    project: Project, strip: Strip, code: DesignCode, analysis: StripAnalysis | None = None
+) -> StripDetail:
+    """Design and detail one strip; ``analysis``: its analysis when already made (a floor's
+    strips are analysed together, :func:`detailer.strip_analysis.analyse_strips`)."""
+    sa = analysis if analysis is not None else analyse_strip(project, strip)
     m = project.materials
     mat = code.materials(m.concrete_class, m.f_yk, m.ductility_class)
     geom = StripGeometry.of(strip)

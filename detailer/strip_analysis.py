@@ -21,6 +21,7 @@ __all__ = [
     "StripAnalysis",
     "action_factors",
     "analyse_strip",
+    "analyse_strips",
     "flexural_stiffness_knm2",
     "strip_beam_model",
     "strip_loads",
@@ -28,13 +29,16 @@ __all__ = [
 ]
 
 import itertools
+from collections.abc import Sequence
 from dataclasses import dataclass, replace
 
 from analysis.arrangements import ActionFactors
 from analysis.arrangements import Combination as AnalysisCombination
 from analysis.arrangements import PatternRule as AnalysisPatternRule
 from analysis.beam import BeamModel, Load, PointLoad, Restraint, UniformLoad
-from analysis.envelope import StripEnvelope, analyse_envelope_variants
+from analysis.envelope import StripEnvelope, analyse_envelope_variants, unit_cases
+from analysis.floor import solve_nodes_floor
+from analysis.stiffness import NodeSolution
 from detailer.codes.en1990 import partial_factors
 from detailer.model import Combination, EndKind, PatternRule, Project, Strip
 
@@ -193,14 +197,62 @@ def analyse_strip(project: Project, strip: Strip) -> StripAnalysis:
     (``strip_model_variants``; why: the module docstring).
     """
     variants = strip_model_variants(strip, project.materials.f_ck)
+    return _analyse(project, strip, variants, strip_loads(strip), None)
+
+
+def analyse_strips(project: Project, strips: Sequence[Strip]) -> tuple[StripAnalysis, ...]:
+    """``analyse_strip`` of every strip, with the unit cases of every strip and restraint
+    variant solved in one floor solve (``analysis.floor``); ULS and SLS share them (the
+    same loads on the same models; redistribution is applied to a copy).
+
+    A strip the floor solve refuses is analysed strip by strip, so the error is the one
+    ``analyse_strip`` gives for the first bad strip.
+    """
+    strips = tuple(strips)
+    f_ck = project.materials.f_ck
+    prepared = [(strip_model_variants(s, f_ck), strip_loads(s)) for s in strips]
+    models: list[BeamModel] = []
+    cases: list[list[list[Load]]] = []
+    names: list[list[str]] = []
+    for variants, (permanent, variable) in prepared:
+        unit, unit_names, _ = unit_cases(permanent, variable)
+        for _, model in variants:
+            models.append(model)
+            cases.append(unit)
+            names.append(unit_names)
+    try:
+        solved = solve_nodes_floor(models, cases, names)
+    except (ValueError, TypeError):
+        return tuple(analyse_strip(project, s) for s in strips)
+    out, k = [], 0
+    for strip, (variants, loads) in zip(strips, prepared):
+        out.append(_analyse(project, strip, variants, loads, solved[k : k + len(variants)]))
+        k += len(variants)
+    return tuple(out)
+
+
+def _analyse(
+    project: Project,
+    strip: Strip,
+    variants: tuple[tuple[str, BeamModel], ...],
+    loads: tuple[tuple[Load, ...], tuple[Load, ...]],
+    solved: Sequence[NodeSolution] | None,
+) -> StripAnalysis:
     model = variants[0][1]
-    permanent, variable = strip_loads(strip)
+    permanent, variable = loads
     factors = action_factors(strip)
     combination = _COMBINATION[project.analysis.combination]
     pattern = _PATTERN[project.analysis.pattern]
     delta = project.analysis.redistribution_delta
     uls = analyse_envelope_variants(
-        variants, permanent, variable, factors, combination, pattern, redistribution_delta=delta
+        variants,
+        permanent,
+        variable,
+        factors,
+        combination,
+        pattern,
+        redistribution_delta=delta,
+        solved=solved,
     )
     sls = analyse_envelope_variants(
         variants,
@@ -210,6 +262,7 @@ def analyse_strip(project: Project, strip: Strip) -> StripAnalysis:
         AnalysisCombination.QUASI_PERMANENT,
         pattern,
         redistribution_delta=1.0,
+        solved=solved,
     )
     return StripAnalysis(
         strip_id=strip.id,

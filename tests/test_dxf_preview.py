@@ -99,13 +99,15 @@ def test_preview_files_one_per_sheet(tmp_path, monkeypatch):
 
 def test_hatched_sheet_renders_to_the_same_bytes_every_time():
     # Regression: ezdxf offsets hatch pattern lines by a random jiggle, so the sheet with the
-    # hatched walls (strip S2) came out different on every render until the preview seeded it.
+    # hatched walls (strip S2) came out different on every render until the preview fixed
+    # the generator's state.
     import random
 
     dxf = sample_dxf()
-    random.seed(1234)
+    callers = random.Random(1234).getstate()
+    random.setstate(callers)
     before = random.random()
-    random.seed(1234)
+    random.setstate(callers)
     first = render_png(dxf, "Strip S2")
     assert random.random() == before  # the caller's random state is left as it was
     assert render_png(dxf, "Strip S2") == first
@@ -229,7 +231,7 @@ def test_title_block_text_is_drawn_inside_its_box():
 def test_first_sheet_renders_to_the_same_bytes_and_keeps_the_callers_random_state():
     import random
 
-    random.seed(99)
+    random.setstate(random.Random(99).getstate())
     state = random.getstate()
     again = render_png(sample_dxf(), "Strip S1", dpi=DPI)  # bytes in; _png passed bytes too
     assert random.getstate() == state
@@ -356,3 +358,107 @@ def test_drawing_only_what_a_viewport_sees_changes_no_pixel(monkeypatch):
     culled = [dxf_preview.render_png(doc, name, dpi=60) for name in sheets]
     monkeypatch.setattr(dxf_preview, "_bbox_cache", lambda doc: ezdxf.bbox.Cache())
     assert [dxf_preview.render_png(doc, name, dpi=60) for name in sheets] == culled
+
+
+# --- the renderer: matplotlib's Agg, called directly, gives the pixels of a figure ----------
+
+
+def _model_space_extras():
+    """Model space with what the sheets seldom hold: DXF points and a zero-length line (drawn
+    as dots), polylines of 128 vertices or more (which matplotlib marks for simplification),
+    a fill of as many, a half-transparent fill over it, text, a circle, framed by what is
+    drawn, as model space is."""
+    import math
+
+    import ezdxf
+
+    doc = ezdxf.new()
+    msp = doc.modelspace()
+    msp.add_point((10.0, 5.0), dxfattribs={"color": 1})
+    msp.add_line((0.0, 0.0), (0.0, 0.0), dxfattribs={"color": 3})
+    ring = [(20 + 10 * math.cos(t / 40), 10 + 8 * math.sin(t / 40)) for t in range(200)]
+    msp.add_lwpolyline(ring, dxfattribs={"color": 5, "lineweight": 50})
+    wave = [(x, 3 * math.sin(x)) for x in np.linspace(0.0, 30.0, 150)]
+    msp.add_lwpolyline(wave, dxfattribs={"color": 6})
+    solid = msp.add_hatch(color=2)
+    solid.paths.add_polyline_path(ring, is_closed=True)
+    glass = msp.add_hatch(color=4)
+    glass.paths.add_polyline_path([(0.0, 0.0), (15.0, 0.0), (15.0, 15.0)], is_closed=True)
+    glass.transparency = 0.5
+    msp.add_text("Ob 8", height=4.0, dxfattribs={"color": 7}).set_placement(
+        (5.0, 20.0), align=TextEntityAlignment.MIDDLE_CENTER
+    )
+    msp.add_circle((30.0, 25.0), 4.0)
+    return doc
+
+
+@pytest.mark.parametrize(
+    ("drawing", "layout", "dpi"),
+    [("sample", "Strip S2", 60), ("extras", "Model", 37), ("extras", "Model", 100)],
+)
+def test_agg_called_directly_draws_the_pixels_of_a_matplotlib_figure(
+    monkeypatch, drawing, layout, dpi
+):
+    """Oracle: matplotlib's public drawing path, a ``Figure`` with one axes filling it, one
+    ``PathCollection`` per run of strokes or fills, drawn by ``FigureCanvasAgg`` (the way
+    the previews were drawn before, and the way they are drawn when the Agg extension cannot
+    be called directly). The direct calls must give the same PNG, byte for byte."""
+    from detailer.io import preview_backend
+
+    doc = read_doc(sample_dxf()) if drawing == "sample" else _model_space_extras()
+
+    def no_figure(*args):
+        raise AssertionError("the preview fell back to drawing a figure")
+
+    def unusable():
+        raise ImportError("Agg extension made unusable by the test")
+
+    with monkeypatch.context() as patch:
+        patch.setattr(preview_backend, "_render_figure", no_figure)
+        direct = render_png(doc, layout, dpi=dpi)
+    monkeypatch.setattr(preview_backend, "_agg_extension", unusable)
+    through_figure = render_png(doc, layout, dpi=dpi)
+    assert direct == through_figure
+    px = _pixels(direct)
+    assert _near(px, (255, 255, 255), 8) < px.shape[0] * px.shape[1]  # not a blank picture
+
+
+def test_a_preview_imports_only_the_agg_extension_of_matplotlib():
+    """Importing ``matplotlib.figure`` and ``backend_agg`` cost about half a second of a
+    fresh preview worker's start (measured with ``python -X importtime``); the package's
+    ``__init__`` alone a fifth. A preview rendered in a fresh process loads matplotlib's Agg
+    extension from its file and no other matplotlib module; matplotlib imported afterwards
+    (as the report plots do) takes that extension as its own and draws as usual."""
+    import json
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    code = (
+        "import json, sys, ezdxf, numpy as np\n"
+        "from detailer.io.dxf_preview import render_png\n"
+        "doc = ezdxf.new()\n"
+        "doc.layouts.new('Sheet').add_text('Ob 8', height=2.5)\n"
+        "png = render_png(doc, 'Sheet', dpi=20)\n"
+        "loaded = sorted(m for m in sys.modules if 'matplotlib' in m)\n"
+        "from matplotlib.backends.backend_agg import FigureCanvasAgg\n"
+        "from matplotlib.figure import Figure\n"
+        "fig = Figure(figsize=(1, 1), dpi=50)\n"
+        "fig.add_axes((0, 0, 1, 1)).plot([0, 1], [0, 1], color='black', linewidth=4)\n"
+        "canvas = FigureCanvasAgg(fig)\n"
+        "canvas.draw()\n"
+        "red = np.asarray(canvas.buffer_rgba())[..., 0]\n"
+        "inked = [int((red < 128).sum()), int((red < 128).any(axis=0).sum())]\n"
+        "print(json.dumps([png[:8].hex(), loaded, inked]))\n"
+    )
+    root = Path(__file__).resolve().parents[1]
+    done = subprocess.run(
+        [sys.executable, "-c", code], cwd=root, capture_output=True, text=True, check=True
+    )
+    signature, loaded, inked = json.loads(done.stdout.strip().splitlines()[-1])
+    assert signature == "89504e470d0a1a0a"  # RFC 2083 PNG signature
+    assert loaded == ["matplotlib.backends._backend_agg"]
+    # a black line 4 pt = 2.8 px wide across the diagonal of a 50 x 50 px figure: about
+    # 50 * sqrt(2) * 2.8 = 200 dark pixels, some in every column
+    dark, columns = inked
+    assert dark == pytest.approx(200, rel=0.3) and columns == 50
