@@ -303,7 +303,7 @@ def _build_outputs(
     workers: int,
     helpers: PreviewWorkers | None,
 ) -> BuildResult:
-    from detailer.audit import audit_layout, parse_schedule_csv
+    from detailer.audit import parse_schedule_csv
     from detailer.report import render_report, report_file_name
 
     progress = options.progress
@@ -333,10 +333,12 @@ def _build_outputs(
     previews = options.wants_previews(n)
     # A drawing split into files is made by the workers while this process writes the
     # record and the report, which do not depend on it.
+    schedule_lines = parse_schedule_csv(csv_bytes.decode("utf-8"), f"{pid}-schedule.csv")
     pending = start_drawing(
         detail,
         record.revisions,
         changed_ids,
+        schedule=schedule_lines,
         previews=previews,
         workers=workers,
         progress=progress,
@@ -357,11 +359,12 @@ def _build_outputs(
     )
     progress.advance()
     drawing = pending.finish()
-    # The drawing must agree with the schedule it is issued with: audit our own outputs (the
+    # The drawing must agree with the schedule it is issued with: our own outputs audited (the
     # documents just written, read back through the same code as `slabwright audit`).
-    findings = audit_layout(
-        drawing.readback, parse_schedule_csv(csv_bytes.decode("utf-8"), f"{pid}-schedule.csv")
-    )
+    findings = drawing.findings
+    orphans = sorted({r.member for r in schedule_lines} - {sd.strip.id for sd in detail.strips})
+    if orphans:
+        findings = (f"schedule rows of member {orphans[0]}, which has no sheet",)
     if findings:
         raise DesignError(
             f"project {pid}: the drawing disagrees with the schedule ({findings[0]}); this is a "

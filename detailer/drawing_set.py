@@ -7,8 +7,9 @@ their numbers in the whole set, "sheet 57 of 500"). A file of hundreds of sheets
 open and to issue, and the split lets each file be drawn, written and read back in a worker
 process of its own, the drawing being most of the time a floor takes.
 
-The read-back (:func:`detailer.io.dxf_readback.readback` of every document as written) is
-returned with the files so that the build can audit the drawing against the schedule.
+Every document as written is read back (:func:`detailer.io.dxf_readback.readback`) and
+audited against the schedule rows of its strips (:func:`detailer.audit.audit_layout`), where it
+was made (in its worker for a split drawing); the findings come back with the files.
 """
 
 from __future__ import annotations
@@ -24,7 +25,7 @@ __all__ = [
 
 import io
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
@@ -36,7 +37,7 @@ from detailer.progress import SILENT, Progress
 from detailer.record import RevisionRecord
 
 if TYPE_CHECKING:  # ezdxf and the writers are imported when a drawing is made
-    from detailer.io.dxf_readback import LayoutReadback
+    from detailer.audit import AuditFinding, ScheduleLine
 
 #: Sheets per layout DXF file; more strips than this and the drawing is split into files.
 SHEETS_PER_FILE = preview_workers.SHEETS_PER_FILE
@@ -46,7 +47,7 @@ SHEETS_PER_FILE = preview_workers.SHEETS_PER_FILE
 class DrawingSet:
     files: tuple[tuple[str, bytes], ...]  # (file name, DXF bytes), in sheet order
     previews: tuple[bytes, ...]  # PNG of every sheet in strip order; () when not rendered
-    readback: LayoutReadback  # every file read back, together
+    findings: tuple[AuditFinding, ...]  # disagreements of the files with the schedule
 
 
 def drawing_file_names(project_id: str, n_strips: int) -> tuple[tuple[str, range], ...]:
@@ -92,13 +93,21 @@ def _preview_task(context: tuple, index: int) -> bytes:
     return render_png(doc, names[index])
 
 
-def _part_task(context: tuple, index: int) -> tuple[bytes, LayoutReadback, tuple[bytes, ...]]:
-    """One file of a split drawing: its sheets chosen, drawn, written, read back, previewed."""
+def _audit(doc, name: str, strip_ids: set[str], schedule) -> tuple[AuditFinding, ...]:
+    """The document read back and audited against the schedule rows of its strips."""
+    from detailer.audit import audit_layout
     from detailer.io.dxf_readback import readback
+
+    rows = [r for r in schedule if r.member in strip_ids]
+    return audit_layout(readback(doc, name), rows)
+
+
+def _part_task(context: tuple, index: int) -> tuple[bytes, tuple, tuple[bytes, ...]]:
+    """One file of a split drawing: its sheets chosen, drawn, written, audited, previewed."""
     from detailer.io.dxf_sheet import choose_sheet
     from detailer.io.dxf_writer import build_layout, document_bytes, layout_name
 
-    detail, revisions, changed, parts, previews = context
+    detail, revisions, changed, parts, previews, schedule = context
     name, strips = parts[index]
     plans = [
         choose_sheet(detail.project, detail.strips[i], revisions=revisions, changed_set_ids=changed)
@@ -111,7 +120,8 @@ def _part_task(context: tuple, index: int) -> tuple[bytes, LayoutReadback, tuple
         from detailer.io.dxf_preview import render_png
 
         pngs = tuple(render_png(doc, layout_name(detail.strips[i].strip.id)) for i in strips)
-    return data, readback(doc, name), pngs
+    ids = {detail.strips[i].strip.id for i in strips}
+    return data, _audit(doc, name, ids, schedule), pngs
 
 
 class PendingDrawing:
@@ -133,12 +143,15 @@ def draw(
     workers: int = 0,
     progress: Progress = SILENT,
     preview_workers: PreviewWorkers | None = None,
+    schedule: Sequence[ScheduleLine] = (),
 ) -> DrawingSet:
-    """The layout file(s) of a detailed, marked project, over ``workers`` processes."""
+    """The layout file(s) of a detailed, marked project, over ``workers`` processes, audited
+    against ``schedule`` (the schedule CSV's rows, :func:`detailer.audit.parse_schedule_csv`)."""
     return start_drawing(
         detail,
         revisions,
         changed_set_ids,
+        schedule=schedule,
         previews=previews,
         workers=workers,
         progress=progress,
@@ -155,17 +168,17 @@ def start_drawing(
     workers: int = 0,
     progress: Progress = SILENT,
     preview_workers: PreviewWorkers | None = None,
+    schedule: Sequence[ScheduleLine] = (),
 ) -> PendingDrawing:
     """Start the layout file(s): a drawing split into files is drawn by the workers while
     this process goes on (e.g. with the report); one file is drawn at :meth:`finish`."""
     n = len(detail.strips)
     parts = drawing_file_names(detail.project.id, n)
+    schedule = tuple(schedule)
     if len(parts) > 1:
-        from detailer.io.dxf_readback import merge_readbacks
-
         pending = start_indexed(
             _part_task,
-            (detail, revisions, changed_set_ids, parts, previews),
+            (detail, revisions, changed_set_ids, parts, previews, schedule),
             len(parts),
             workers=workers,
         )
@@ -176,8 +189,8 @@ def start_drawing(
             files = tuple(
                 (name, data) for (name, _), (data, _, _) in zip(parts, results, strict=True)
             )
-            back = merge_readbacks([rb for _, rb, _ in results], " + ".join(m for m, _ in parts))
-            return DrawingSet(files, tuple(p for _, _, pngs in results for p in pngs), back)
+            findings = tuple(f for _, found, _ in results for f in found)
+            return DrawingSet(files, tuple(p for _, _, pngs in results for p in pngs), findings)
 
         return PendingDrawing(finish_parts)
     return PendingDrawing(
@@ -190,6 +203,7 @@ def start_drawing(
             workers,
             progress,
             preview_workers,
+            schedule,
         )
     )
 
@@ -203,8 +217,8 @@ def _one_file(
     workers: int,
     progress: Progress,
     preview_workers: PreviewWorkers | None,
+    schedule: tuple[ScheduleLine, ...],
 ) -> DrawingSet:
-    from detailer.io.dxf_readback import readback
     from detailer.io.dxf_writer import build_layout, document_bytes, layout_name
 
     n = len(detail.strips)
@@ -218,7 +232,7 @@ def _one_file(
     )
     doc = build_layout(detail, revisions, changed_set_ids, plans=plans)
     data = document_bytes(doc, workers=workers)
-    back = readback(doc, name)
+    findings = _audit(doc, name, {sd.strip.id for sd in detail.strips}, schedule)
     pngs: tuple[bytes, ...] = ()
     if previews and preview_workers is not None:
         progress.start("previews", n)
@@ -237,4 +251,4 @@ def _one_file(
                 on_done=lambda _: progress.advance(),
             )
         )
-    return DrawingSet(((name, data),), pngs, back)
+    return DrawingSet(((name, data),), pngs, findings)

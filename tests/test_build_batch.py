@@ -275,3 +275,27 @@ def test_an_interrupted_build_says_so_in_one_line_and_changes_nothing(
     err = capsys.readouterr().err.strip().splitlines()
     assert err == ["interrupted: no output files were changed"]
     assert _snapshot(out) == before
+
+
+@pytest.mark.parametrize("sheets_per_file", [50, 5])
+def test_the_build_audits_its_own_drawing_against_its_schedule(
+    monkeypatch, sheets_per_file: int
+) -> None:
+    """A schedule that lost a row no longer matches the drawing: the build refuses to issue
+    (in one file, audited in this process; split into files, audited in each file's worker)."""
+    import detailer.build as build_module
+    import detailer.drawing_set as ds
+    from detailer.errors import DesignError
+
+    monkeypatch.setattr(ds, "SHEETS_PER_FILE", sheets_per_file)
+    real = build_module.render_schedule_csv
+
+    def lossy(*args, **kwargs) -> bytes:
+        lines = real(*args, **kwargs).decode("utf-8").splitlines(keepends=True)
+        head = next(i for i, line in enumerate(lines) if line.startswith("Member,Bar mark"))
+        return "".join(lines[: head + 1] + lines[head + 2 :]).encode("utf-8")
+
+    monkeypatch.setattr(build_module, "render_schedule_csv", lossy)
+    project = parse_project(floor_yaml(N), "floor.yaml")
+    with pytest.raises(DesignError, match="disagrees with the schedule"):
+        build_outputs(project, options=BuildOptions(workers=2, previews=False))
