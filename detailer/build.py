@@ -272,24 +272,16 @@ def build_outputs(
     Strips that cannot be designed are left out and listed in ``not_detailed``."""
     n_strips = len(project.strips)
     workers = worker_count(n_strips, options.workers)
-    if options.preview_workers is not None:  # started by the caller, who closes them
-        return _build_outputs(
-            project,
-            code,
-            input_name,
-            input_sha256,
-            previous,
-            options,
-            workers,
-            options.preview_workers,
-        )
-    helpers = start_preview_workers(n_strips, options.previews)  # ready while we design
+    helpers = options.preview_workers  # started early by the caller, who closes them
+    own = helpers is None
+    if own:
+        helpers = start_preview_workers(n_strips, options.previews)  # ready while we design
     try:
         return _build_outputs(
             project, code, input_name, input_sha256, previous, options, workers, helpers
         )
     finally:
-        if helpers is not None:
+        if own and helpers is not None:
             helpers.close()
 
 

@@ -18,12 +18,10 @@ __all__ = [
     "SHEETS_PER_FILE",
     "DrawingSet",
     "PendingDrawing",
-    "draw",
     "drawing_file_names",
     "start_drawing",
 ]
 
-import io
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
@@ -75,21 +73,12 @@ def _plan_task(context: tuple, index: int):
     )
 
 
-_PREVIEW_DOC: dict[int, object] = {}  # a spawned worker's parsed drawing, by id of its bytes
-
-
 def _preview_task(context: tuple, index: int) -> bytes:
     from detailer.io.dxf_preview import render_png
 
     dxf_bytes, doc, names = context
-    if doc is None:  # a spawned worker: parse the drawing once, then keep it
-        doc = _PREVIEW_DOC.get(id(dxf_bytes))
-        if doc is None:
-            import ezdxf
-
-            doc = ezdxf.read(io.StringIO(dxf_bytes.decode("utf-8")))
-            _PREVIEW_DOC.clear()
-            _PREVIEW_DOC[id(dxf_bytes)] = doc
+    if doc is None:  # a spawned worker: the drawing parsed once, then kept
+        doc = preview_workers.parsed_drawing(dxf_bytes)
     return render_png(doc, names[index])
 
 
@@ -132,31 +121,6 @@ class PendingDrawing:
 
     def finish(self) -> DrawingSet:
         return self._finish()
-
-
-def draw(
-    detail: ProjectDetail,
-    revisions: tuple[RevisionRecord, ...],
-    changed_set_ids: frozenset[tuple[str, str]],
-    *,
-    previews: bool,
-    workers: int = 0,
-    progress: Progress = SILENT,
-    preview_workers: PreviewWorkers | None = None,
-    schedule: Sequence[ScheduleLine] = (),
-) -> DrawingSet:
-    """The layout file(s) of a detailed, marked project, over ``workers`` processes, audited
-    against ``schedule`` (the schedule CSV's rows, :func:`detailer.audit.parse_schedule_csv`)."""
-    return start_drawing(
-        detail,
-        revisions,
-        changed_set_ids,
-        schedule=schedule,
-        previews=previews,
-        workers=workers,
-        progress=progress,
-        preview_workers=preview_workers,
-    ).finish()
 
 
 def start_drawing(

@@ -8,7 +8,13 @@ core. Light to import: nothing heavy is imported here until a worker starts.
 
 from __future__ import annotations
 
-__all__ = ["PREVIEW_MAX_STRIPS", "PreviewWorkers", "start_preview_workers", "wants_previews"]
+__all__ = [
+    "PREVIEW_MAX_STRIPS",
+    "PreviewWorkers",
+    "parsed_drawing",
+    "start_preview_workers",
+    "wants_previews",
+]
 
 import io
 
@@ -62,8 +68,8 @@ def _noop() -> None:
 _WORKER_DOCS: dict[bytes, object] = {}  # a preview worker's parsed drawing, by its digest
 
 
-def _parsed(dxf_bytes: bytes):
-    """The drawing of ``dxf_bytes``, parsed once per worker."""
+def parsed_drawing(dxf_bytes: bytes):
+    """The drawing of ``dxf_bytes``, parsed once per process (by its digest)."""
     import hashlib
 
     key = hashlib.blake2b(dxf_bytes, digest_size=16).digest()
@@ -80,7 +86,7 @@ def _parsed(dxf_bytes: bytes):
 def _render_one(dxf_bytes: bytes, name: str) -> bytes:
     from detailer.io.dxf_preview import render_png
 
-    return render_png(_parsed(dxf_bytes), name)
+    return render_png(parsed_drawing(dxf_bytes), name)
 
 
 def _render_many(dxf_bytes: bytes, names: tuple[str, ...]) -> tuple[bytes, ...]:
@@ -94,7 +100,7 @@ def _render_many(dxf_bytes: bytes, names: tuple[str, ...]) -> tuple[bytes, ...]:
     if groups <= 1 or not hasattr(os, "fork"):
         return tuple(_render_one(dxf_bytes, n) for n in names)
     shares = [names[k::groups] for k in range(groups)]
-    _parsed(dxf_bytes)  # parse once, before forking: the copies inherit the document
+    parsed_drawing(dxf_bytes)  # parse once, before forking: the copies inherit the document
     children = []
     for k in range(1, groups):
         read_end, write_end = os.pipe()
