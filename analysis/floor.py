@@ -22,9 +22,13 @@ the first bad strip, prefixed "model k: ".
 
 from __future__ import annotations
 
+import dataclasses
+import functools
 import itertools
-from collections.abc import Iterator, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
+from operator import attrgetter
+from typing import Any
 
 import numpy as np
 
@@ -69,8 +73,8 @@ class _StripError(Exception):
 @dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class _Floor:
     """Every strip's geometry, stations and node results side by side (internal). Node
-    arrays are (n_cols, n_nodes) over all strips' nodes; a strip's cases are its first
-    columns. Offsets have one entry per strip plus one."""
+    arrays are (n_nodes, n_cols) over all strips' nodes (a node's cases are one row); a
+    strip's cases are its first columns. Offsets have one entry per strip plus one."""
 
     models: tuple[BeamModel, ...]
     n_cases: tuple[int, ...]
@@ -124,16 +128,16 @@ def solve_nodes_floor(
             v0=f_v0[e0:e1],
             j0=f_j0[e0:e1],
         )
-        node_m = fl.node_m[:nc, n0:n1]
+        node_m = fl.node_m[n0:n1, :nc].T
         out[order[k]] = NodeSolution(
             model=model,
             stations=stations,
             free=free,
             node_moment_knm=node_m,
             elastic_node_moment_knm=node_m,
-            reactions_kn=fl.reactions[:nc, n0:n1],
-            node_v_m=fl.node_v_m[:nc, n0:n1],
-            node_theta_rad=fl.node_theta[:nc, n0:n1],
+            reactions_kn=fl.reactions[n0:n1, :nc].T,
+            node_v_m=fl.node_v_m[n0:n1, :nc].T,
+            node_theta_rad=fl.node_theta[n0:n1, :nc].T,
         )
     return tuple(out)  # type: ignore[arg-type]
 
@@ -154,24 +158,36 @@ def solve_floor(
     for g0, g1, values in _station_values(fl):
         base = st_off[g0]
         for k in range(g0, g1):
-            at = values[:, :, st_off[k] - base : st_off[k + 1] - base]
-            nd = nodes[:, : n_cases[k], node_off[k] : node_off[k + 1]]
-            out[order[k]] = CaseResults(
-                stations=fl.stations[k],
-                m_knm=at[0],
-                v_kn=at[1],
-                deflection_mm=at[2],
-                reactions_kn=nd[0],
-                node_moment_knm=nd[1],
-                node_deflection_mm=nd[2],
-                node_rotation_rad=nd[3],
-            )
+            m, v, d = values[:, :, st_off[k] - base : st_off[k + 1] - base]
+            r, mn, dn, th = nodes[:, node_off[k] : node_off[k + 1], : n_cases[k]].transpose(0, 2, 1)
+            out[order[k]] = _case_results(fl.stations[k], m, v, d, r, mn, dn, th)
     return tuple(out)  # type: ignore[arg-type]
 
 
 def _freeze(*arrays: np.ndarray) -> None:
     for a in arrays:
         a.setflags(write=False)
+
+
+def _of_views(cls: type) -> Callable[..., Any]:
+    """A constructor of the frozen slots dataclass ``cls`` from its fields in order, for
+    views of the floor's read-only arrays: the fields are set as ``__init__`` sets them,
+    without ``__post_init__`` (which would only mark read-only views read-only again).
+    Hundreds of strips make thousands of these objects; this is a third of their cost."""
+    setters = [getattr(cls, f.name).__set__ for f in dataclasses.fields(cls)]
+    new = object.__new__
+
+    def make(*values: object) -> Any:
+        obj = new(cls)
+        for put, value in zip(setters, values, strict=True):
+            put(obj, value)
+        return obj
+
+    return make
+
+
+_case_results = _of_views(CaseResults)
+_stations = _of_views(Stations)
 
 
 # --------------------------------------------------------------------------- stations
@@ -193,21 +209,22 @@ def _station_values(
     the few stations off the grid (support faces, load points) are evaluated one by one.
     """
     frame, table = fl.frame, fl.table
-    n_cols = fl.node_m.shape[0]
+    n_cols = fl.node_m.shape[1]
     left, right = frame.left, frame.left + 1
     length = frame.length_m
     full = full_line_loads(table, length)
-    w = np.zeros((n_cols, length.size))
-    np.add.at(w, (table.case[full], table.segment[full]), table.intensity[full])
+    w = np.zeros((length.size, n_cols))
+    np.add.at(w, (table.segment[full], table.case[full]), table.intensity[full])
     k_ei = -1000.0 / fl.ei_el
-    m_l, m_r = fl.node_m[:, left], fl.node_m[:, right]
+    m_l, m_r = fl.node_m[left], fl.node_m[right]
+    # Per segment (rows) and case (columns).
     rows = {
         "m_l": m_l,
         "m_r": m_r,
         "w": w,
-        "slope": (m_r - m_l) / length,
-        "v_l": fl.node_v_m[:, left] * 1000.0,
-        "th_l": fl.node_theta[:, left] * 1000.0,
+        "slope": (m_r - m_l) / length[:, None],
+        "v_l": fl.node_v_m[left] * 1000.0,
+        "th_l": fl.node_theta[left] * 1000.0,
     }
     coefficients = _grid_coefficients(rows, length, k_ei)
     # Per station: its grid point (stations off the grid are evaluated on their own).
@@ -224,7 +241,8 @@ def _station_values(
         fl.st_start, local, fl.st_side, length, _rows_of(table, ~full)
     )
     f_j0 = f_j0 * k_ei[seg[f_st]]
-    # One buffer for every output, each run's part of it in turn.
+    # One buffer for every output, each run's part of it in turn: (3, stations, cases),
+    # so that a station's values of every case are one row (see ``_on_grid``).
     st_off, seg_off, n_cases = fl.st_off.tolist(), fl.seg_off.tolist(), fl.n_cases
     el_div, st_start = fl.n_div.tolist(), fl.st_start.tolist()
     scratch = np.empty(0)
@@ -239,7 +257,7 @@ def _station_values(
             g1 += 1
         nc, n = key
         a, b = st_off[k], st_off[g1]
-        out = buffer[used : used + 3 * nc * (b - a)].reshape(3, nc, b - a)
+        out = buffer[used : used + 3 * nc * (b - a)].reshape(3, b - a, nc)
         used += out.size
         if scratch.size < nc * _SEGMENTS * (n + 1):
             scratch = np.empty(nc * _SEGMENTS * (n + 1))
@@ -247,14 +265,14 @@ def _station_values(
         o0, o1 = np.searchsorted(off, [a, b])
         if o1 > o0:
             for o, x in zip(out, extra):
-                o[:, off[o0:o1] - a] = x[:nc, o0:o1]
+                o[off[o0:o1] - a] = x[o0:o1, :nc]
         f0, f1 = np.searchsorted(f_st, [a, b])
         if f1 > f0:
-            where = (f_case[f0:f1], f_st[f0:f1] - a)
+            where = (f_st[f0:f1] - a, f_case[f0:f1])
             for o, vals in zip(out, (f_m0, f_v0, f_j0)):
                 np.add.at(o, where, vals[f0:f1])
         out.setflags(write=False)
-        yield k, g1, out
+        yield k, g1, out.transpose(0, 2, 1)
         k = g1
 
 
@@ -288,51 +306,58 @@ def _on_grid(
     a: int,
     scratch: np.ndarray,
 ) -> None:
-    """(M, V, deflection) at the stations of segments e0:e1 into ``out`` (3, n_cases,
-    stations from station ``a``), from the grid values t = i / n of each segment (stations
-    off the grid get grid point 0 here: the caller overwrites them). ``scratch`` holds the
-    grid values of ``_SEGMENTS`` segments."""
+    """(M, V, deflection) at the stations of segments e0:e1 into ``out`` (3, stations from
+    station ``a``, n_cases), from the grid values t = i / n of each segment (stations off
+    the grid get grid point 0 here: the caller overwrites them). ``scratch`` holds the grid
+    values of ``_SEGMENTS`` segments.
+
+    The grid values come out as rows (grid point, segment) of every case, so each station
+    copies one row of n_cases values: far fewer, longer copies than one value at a time.
+    """
     shapes = _grid_shapes(n)
-    nc = out.shape[1]
+    nc = out.shape[2]
     if nc == 0:
         return
     for c0 in range(e0, e1, _SEGMENTS):
         c1 = min(e1, c0 + _SEGMENTS)
         s0, s1 = st_start[c0], st_start[c1]
-        col = (seg[s0:s1] - c0) * (n + 1) + grid_i[s0:s1]
-        size = nc * (c1 - c0) * (n + 1)
+        row = grid_i[s0:s1] * (c1 - c0) + (seg[s0:s1] - c0)
+        g = scratch[: nc * (c1 - c0) * (n + 1)].reshape(n + 1, -1)
         for q, (c, sh) in enumerate(zip(coefficients, shapes)):
-            g = scratch[:size]
-            np.matmul(c[:nc, c0:c1].reshape(-1, sh.shape[0]), sh, out=g.reshape(-1, n + 1))
-            np.take(g.reshape(nc, -1), col, axis=1, out=out[q, :, s0 - a : s1 - a], mode="clip")
+            np.matmul(sh, c[:, c0:c1, :nc].reshape(sh.shape[1], -1), out=g)
+            np.take(g.reshape(-1, nc), row, axis=0, out=out[q, s0 - a : s1 - a], mode="clip")
 
 
 def _grid_coefficients(
     rows: dict[str, np.ndarray], length: np.ndarray, k_ei: np.ndarray
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """Coefficients (n_cases, n_seg, n_terms) of M, V and deflection on the shapes of
+    """Coefficients (n_terms, n_seg, n_cases) of M, V and deflection on the shapes of
     ``_grid_shapes``, per segment and case."""
     m_l, m_r, w = rows["m_l"], rows["m_r"], rows["w"]
+    length = length[:, None]
     l2 = length**2
-    k2 = k_ei * l2
+    k2 = k_ei[:, None] * l2
     return (
-        np.stack((m_l, m_r, w * (0.5 * l2)), axis=-1),
-        np.stack((rows["slope"], w * length), axis=-1),
-        np.stack((rows["v_l"], rows["th_l"] * length, m_l * k2, m_r * k2, w * (k2 * l2)), -1),
+        np.stack((m_l, m_r, w * (0.5 * l2))),
+        np.stack((rows["slope"], w * length)),
+        np.stack((rows["v_l"], rows["th_l"] * length, m_l * k2, m_r * k2, w * (k2 * l2))),
     )
 
 
+@functools.cache
 def _grid_shapes(n: int) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """Shapes (n_terms, n + 1) of M, V and deflection at t = x / L = i / n (see
-    ``_station_values``: x = t L)."""
+    """Shapes (n + 1, n_terms) of M, V and deflection at t = x / L = i / n (see
+    ``_station_values``: x = t L); read-only, made once for each n."""
     t = np.arange(n + 1) / n
     t3 = t**3
     one = np.ones_like(t)
-    return (
-        np.stack((1.0 - t, t, t * (1.0 - t))),
-        np.stack((one, 0.5 - t)),
-        np.stack((one, t, 0.5 * t**2 - t3 / 6.0, t3 / 6.0, t3 * (2.0 - t) / 24.0)),
+    shapes = (
+        np.stack((1.0 - t, t, t * (1.0 - t)), axis=1),
+        np.stack((one, 0.5 - t), axis=1),
+        np.stack((one, t, 0.5 * t**2 - t3 / 6.0, t3 / 6.0, t3 * (2.0 - t) / 24.0), axis=1),
     )
+    _freeze(*shapes)
+    return shapes
 
 
 def _off_grid(
@@ -343,11 +368,11 @@ def _off_grid(
     k_ei: np.ndarray,
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """(M, V, deflection) at stations x (m) of segments ``seg`` of ``rows``, each
-    (n_cases, n_stations)."""
-    ln, k = length[seg], k_ei[seg]
-    x3 = x**3
+    (n_stations, n_cases)."""
+    ln, k, x = length[seg, None], k_ei[seg, None], x[:, None]
+    x3 = x * x * x
     c2 = x3 / (6.0 * ln)
-    g = {name: np.take(r, seg, axis=1) for name, r in rows.items()}
+    g = {name: np.take(r, seg, axis=0) for name, r in rows.items()}
     m = g["m_l"] * (1.0 - x / ln) + g["m_r"] * (x / ln) + g["w"] * (0.5 * x * (ln - x))
     v = g["slope"] + g["w"] * (0.5 * ln - x)
     d = g["v_l"] + g["th_l"] * x
@@ -412,14 +437,18 @@ def _offsets(counts: np.ndarray) -> np.ndarray:
 
 def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) -> _Floor:
     n_models = len(models)
-    n_nodes = np.array([len(m.node_x_mm) for m in models], dtype=np.intp)
+    # Every model's fields read by C-level iteration (attrgetter, map): no Python frame
+    # per model.
+    xs = list(map(attrgetter("node_x_mm"), models))
+    n_nodes = np.fromiter(map(len, xs), np.intp, n_models)
     node_off = _offsets(n_nodes)
     seg_off = node_off - np.arange(n_models + 1)
     total = int(node_off[-1])
     chain = itertools.chain.from_iterable
-    node_x = np.fromiter(chain(m.node_x_mm for m in models), float, total)
-    half = np.fromiter(chain(m.support_width_mm for m in models), float, total) / 2.0
-    codes = restraint_codes(list(chain(m.restraints for m in models)))
+    node_x = np.fromiter(chain(xs), float, total)
+    widths = chain(map(attrgetter("support_width_mm"), models))
+    half = np.fromiter(widths, float, total) / 2.0
+    codes = restraint_codes(list(chain(map(attrgetter("restraints"), models))))
     model_of_node = np.repeat(np.arange(n_models), n_nodes)
     end = np.zeros(total, dtype=bool)
     end[node_off[:-1]] = True
@@ -435,15 +464,15 @@ def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) 
     length_mm = node_x[left + 1] - node_x[left]
     frame = Frame(length_m=length_mm / 1000.0, left=left, restraint=codes, end=end)
     model_of_el = model_of_node[left]
-    ei_el = np.array([m.ei_knm2 for m in models], dtype=float)[model_of_el]
-    frac = np.array([m.station_spacing_fraction for m in models], dtype=float)
+    ei_el = np.array(list(map(attrgetter("ei_knm2"), models)), dtype=float)[model_of_el]
+    frac = np.array(list(map(attrgetter("station_spacing_fraction"), models)), dtype=float)
     ok = (frac > 0.0) & (frac <= 1.0)
     if not ok.all():
         k = int(np.argmin(ok))
         raise _StripError(k, f"station_spacing_fraction must be in (0, 1], got {frac[k]}")
     n_div = np.maximum(1, np.ceil(1.0 / frac - 1e-9)).astype(np.intp)
 
-    n_cases = tuple(len(c) for c in cases)
+    n_cases = tuple(map(len, cases))
     n_cols = max(n_cases, default=0)
     table = stacked_load_table(cases, n_cases, n_cols, n_nodes - 1, seg_off, length_mm)
     if table is None:
@@ -484,9 +513,7 @@ def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) 
         rhs[red_j, dof_model] = f_full[free]
         d_full[free] = factor.solve(rhs)[red_j, dof_model]
     node_m, reactions = node_results(frame, ke, d_full, fe_el)
-    node_arrays = [
-        np.ascontiguousarray(a.T) for a in (node_m, reactions, d_full[0::2], d_full[1::2])
-    ]
+    node_arrays = [node_m, reactions, d_full[0::2], d_full[1::2]]
     _freeze(*node_arrays)
     return _Floor(
         models,
@@ -524,12 +551,12 @@ def _strip_stations(
         a, b = st[k], st[k + 1]
         s0 = sg[k] + k
         out.append(
-            Stations(
-                x_mm=x_mm[a:b],
-                segment=local_seg[a:b],
-                local_mm=local_mm[a:b],
-                side=side[a:b],
-                start=starts[s0 : s0 + sg[k + 1] - sg[k] + 1],
+            _stations(
+                x_mm[a:b],
+                local_seg[a:b],
+                local_mm[a:b],
+                side[a:b],
+                starts[s0 : s0 + sg[k + 1] - sg[k] + 1],
             )
         )
     return tuple(out)

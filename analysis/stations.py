@@ -282,13 +282,6 @@ def _floats(values: list) -> np.ndarray:
     return np.array(values, dtype=float)
 
 
-def _floats(values: list) -> np.ndarray:
-    """float array of numbers and None (nan); all None is the common case."""
-    if values.count(None) == len(values):
-        return np.full(len(values), np.nan)
-    return np.array(values, dtype=float)
-
-
 def build_stations(model: BeamModel, table: LoadTable) -> Stations:
     """Stations: a uniform grid at most L * model.station_spacing_fraction apart in every
     segment, plus support faces, load points and the ends of partial line loads."""
@@ -390,11 +383,12 @@ def _insert(
     if not at.size:
         return arrays
     new = at + np.arange(at.size)
-    old = np.ones(arrays[0].size + at.size, dtype=bool)
-    old[new] = False
+    keep = np.ones(arrays[0].size + at.size, dtype=bool)
+    keep[new] = False
+    old = np.flatnonzero(keep)  # indices: one pass over the mask for every array
     out = []
     for a, v in zip(arrays, values):
-        r = np.empty(old.size, dtype=a.dtype)
+        r = np.empty(keep.size, dtype=a.dtype)
         r[old] = a
         r[new] = v
         out.append(r)
@@ -481,7 +475,7 @@ def free_term_arrays(
     q = table.intensity[load]
     m0 = q * np.repeat(0.5 * x_s * (l_s - x_s), reps)
     v0 = q * np.repeat(0.5 * l_s - x_s, reps)
-    j0 = q * np.repeat(x_s**3 * (2.0 * l_s - x_s) / 24.0, reps)
+    j0 = q * np.repeat(x_s * x_s * x_s * (2.0 * l_s - x_s) / 24.0, reps)
     other = np.flatnonzero(~full_line_loads(table, length_m)[load])
     if other.size:
         m0[other], v0[other], j0[other] = _general_free_terms(

@@ -12,6 +12,7 @@ Units inside: m, kN, kNm, kNm2; results in mm, kN, kNm (see ``analysis.beam``).
 
 from __future__ import annotations
 
+import itertools
 from collections.abc import Sequence
 from dataclasses import dataclass, field, replace
 
@@ -170,7 +171,7 @@ class NodeSolution:
         """Deflection (mm, down +), shape (n_idx, n_cases)."""
         seg, x, length = self._geometry(idx)
         ei = self.model.ei_knm2
-        c2 = x**3 / (6.0 * length)
+        c2 = x * x * x / (6.0 * length)
         c1 = 0.5 * x**2 - c2
         v_l, th_l, m_l, m_r = self._seg_y
         out = (m_l[seg] * (c1 / ei)[:, None] + m_r[seg] * (c2 / ei)[:, None]) * -1000.0
@@ -199,10 +200,12 @@ def element_matrices(length_m: np.ndarray, ei: float | np.ndarray) -> np.ndarray
             [6.0, 2.0, -6.0, 4.0],
         ]
     )
-    # Powers of L for each entry: v-v 0, v-th 1, th-th 2.
-    power = np.array([[0, 1, 0, 1], [1, 2, 1, 2], [0, 1, 0, 1], [1, 2, 1, 2]])
+    # Powers of L for each entry: v-v 0, v-th 1, th-th 2 (products: pow is slow).
+    power = np.array([[0, 1, 0, 1], [1, 2, 1, 2], [0, 1, 0, 1], [1, 2, 1, 2]])[None]
+    l2 = length * length
+    l_power = np.where(power == 0, 1.0, np.where(power == 1, length, l2))
     ei = np.reshape(np.asarray(ei, dtype=float), (-1, 1, 1))
-    return ei * base[None] * length ** power[None] / length**3
+    return ei * base[None] * l_power / (l2 * length)
 
 
 def _fixed_end_actions(table: LoadTable, length_by_seg: np.ndarray) -> np.ndarray:
@@ -272,8 +275,8 @@ _CODE = {id(Restraint.FREE): 0, id(Restraint.PINNED): 1, id(Restraint.FIXED): 2}
 
 def restraint_codes(restraints: Sequence[Restraint]) -> np.ndarray:
     """(n,) int8 codes of ``Frame.restraint``: 0 free, 1 pinned, 2 fixed."""
-    code = _CODE.get
-    return np.fromiter([code(id(r), 1) for r in restraints], np.int8, len(restraints))
+    codes = map(_CODE.get, map(id, restraints), itertools.repeat(1))
+    return np.fromiter(codes, np.int8, len(restraints))
 
 
 @dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
@@ -354,24 +357,33 @@ def node_results(
 ) -> tuple[np.ndarray, np.ndarray]:
     """Node moments and reactions, each (n_nodes, n_cases), from the DOF values
     (2 n_nodes, n_cases) and the fixed-end actions."""
-    # Element end actions f = k d + fixed-end actions (term by term in a fixed order, the
-    # same for any number of cases: one beam or a floor agree bit for bit).
-    d_el = d_full[frame.dofs()]  # (n_el, 4, n_cases)
-    f_el = fe_el.copy()
-    for c in range(4):
-        f_el += ke[:, :, c, None] * d_el[:, None, c, :]
+    # Element end actions f = k d + fixed-end actions, term by term in a fixed order (the
+    # same for any number of cases: one beam or a floor agree bit for bit), with the
+    # elements last so that every operation runs along them.
+    d_t = np.ascontiguousarray(d_full.T)  # (n_cases, 2 n_nodes)
+    dof = 2 * frame.left
+    d_el = [d_t[:, dof + c] for c in range(4)]  # (n_cases, n_el): v1, th1, v2, th2
+    k_t = np.ascontiguousarray(ke.transpose(1, 2, 0))  # (4, 4, n_el)
+    fe_t = fe_el.transpose(1, 2, 0)  # (4, n_cases, n_el)
+    term = np.empty_like(d_el[0])
+    f_el = []  # (n_el, n_cases) for each DOF of the element
+    for r in range(4):
+        f = fe_t[r].copy()
+        for c in range(4):
+            f += np.multiply(k_t[r, c], d_el[c], out=term)
+        f_el.append(f.T)
     left, right = frame.left, frame.left + 1
     # M(0) is the action along +theta at the left node, M(L) minus that at the right node;
     # a node between two elements takes the mean of the two.
     node_m = np.zeros((frame.n_nodes, fe_el.shape[2]))
-    node_m[left] = f_el[:, 1, :]
-    node_m[right] -= f_el[:, 3, :]
+    node_m[left] = f_el[1]
+    node_m[right] -= f_el[3]
     node_m[~frame.end] *= 0.5
     node_m[frame.end & (frame.restraint != 2)] = 0.0  # pinned or free end: zero by statics
     # Reactions: the nodes push the elements with f; the supports push the nodes.
     down = np.zeros_like(node_m)
-    down[left] += f_el[:, 0, :]
-    down[right] += f_el[:, 2, :]
+    down[left] += f_el[0]
+    down[right] += f_el[2]
     reactions = -down
     reactions[frame.restraint == 0] = 0.0
     return node_m, reactions

@@ -316,11 +316,17 @@ def test_errors_name_the_first_bad_model() -> None:
 
 
 def test_results_are_read_only_and_an_empty_floor_is_empty() -> None:
+    # The floor makes its per-strip objects as views of its read-only arrays, without
+    # their __post_init__: every array must still refuse writes.
     res = solve_floor([BeamModel.from_spans([5000.0])], [[[UniformLoad(0, 1.0)]]])[0]
     with pytest.raises(ValueError):
         res.m_knm[0, 0] = 1.0
     with pytest.raises(ValueError):
         res.x_mm[0] = 1.0
+    for name in CASE_FIELDS:
+        assert not getattr(res, name).flags.writeable, name
+    for name in STATION_FIELDS:
+        assert not getattr(res.stations, name).flags.writeable, name
     sol = solve_nodes_floor([BeamModel.from_spans([5000.0])], [[[UniformLoad(0, 1.0)]]])[0]
     with pytest.raises(ValueError):
         sol.node_moment_knm[0, 0] = 1.0
