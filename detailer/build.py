@@ -156,12 +156,17 @@ def _marked(
     withdrawn: tuple[str, ...] = (),
 ) -> ProjectDetail:
     """Every bar set with its mark (keeping the marks of ``previous`` for unchanged bars,
-    never reusing ``withdrawn``); the project keeps only the detailed strips."""
+    never reusing ``withdrawn``); the project keeps only the detailed strips, and the
+    others are listed in ``not_detailed``."""
     marked = assign_marks([d.bar_sets for d in details], previous, withdrawn=withdrawn)
     strips = tuple(dataclasses.replace(d, bar_sets=m) for d, m in zip(details, marked, strict=True))
     done = {d.strip.id for d in details}
     kept = tuple(s for s in project.strips if s.id in done)
-    return ProjectDetail(project=dataclasses.replace(project, strips=kept), strips=strips)
+    return ProjectDetail(
+        project=dataclasses.replace(project, strips=kept),
+        strips=strips,
+        not_detailed=tuple(s.id for s in project.strips if s.id not in done),
+    )
 
 
 def detail_with_marks(

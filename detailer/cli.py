@@ -192,6 +192,7 @@ def _check(path: str, out: TextIO, err: TextIO) -> int:
     except OSError as exc:  # load_project converts these; kept as a last guard
         print(f"{path}: cannot read the file: {exc.strerror or exc}; check the path", file=err)
         return EXIT_INPUT_ERROR
+    _input_notes(project, err)
     from detailer.pipeline import default_code, detail_strip
     from detailer.strip_analysis import analyse_strip
     from detailer.summary import design_lines
@@ -268,6 +269,7 @@ def _build(
         project = load_project(path)
     except ProjectError as exc:
         return _input_errors(exc, err)
+    _input_notes(project, err)
     helpers = _start_previews(len(project.strips), previews)
     try:
         from detailer.build import BuildOptions
@@ -280,6 +282,13 @@ def _build(
     finally:
         if helpers is not None:
             helpers.close()
+
+
+def _input_notes(project, err: TextIO) -> None:
+    """What reading the input repaired (a damaged drawing read by recovery), one line each:
+    the user should know, and may want to mend the drawing."""
+    for note in project.input_notes:
+        print(f"note: {note}", file=err)
 
 
 def _start_previews(n_strips: int, previews: bool | None):

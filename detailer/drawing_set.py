@@ -65,12 +65,10 @@ def drawing_file_names(project_id: str, n_strips: int) -> tuple[tuple[str, range
 
 
 def _plan_task(context: tuple, index: int):
-    from detailer.io.dxf_sheet import choose_sheet
+    from detailer.io.dxf_writer import strip_sheet
 
     detail, revisions, changed = context
-    return choose_sheet(
-        detail.project, detail.strips[index], revisions=revisions, changed_set_ids=changed
-    )
+    return strip_sheet(detail, detail.strips[index], revisions, changed)
 
 
 def _preview_task(context: tuple, index: int) -> bytes:
@@ -93,15 +91,11 @@ def _audit(doc, name: str, strip_ids: set[str], schedule) -> tuple[AuditFinding,
 
 def _part_task(context: tuple, index: int) -> tuple[bytes, tuple, tuple[bytes, ...]]:
     """One file of a split drawing: its sheets chosen, drawn, written, audited, previewed."""
-    from detailer.io.dxf_sheet import choose_sheet
-    from detailer.io.dxf_writer import build_layout, document_bytes, layout_name
+    from detailer.io.dxf_writer import build_layout, document_bytes, layout_name, strip_sheet
 
     detail, revisions, changed, parts, previews, schedule = context
     name, strips = parts[index]
-    plans = [
-        choose_sheet(detail.project, detail.strips[i], revisions=revisions, changed_set_ids=changed)
-        for i in strips
-    ]
+    plans = [strip_sheet(detail, detail.strips[i], revisions, changed) for i in strips]
     doc = build_layout(detail, revisions, changed, plans=plans, part=strips)
     data = document_bytes(doc)
     pngs: tuple[bytes, ...] = ()

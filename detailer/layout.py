@@ -152,7 +152,11 @@ class StripDetail:
 
 @dataclass(frozen=True, slots=True)
 class ProjectDetail:
-    """The detailed project: the input model and one StripDetail per strip, in input order."""
+    """The detailed project: the input model and one StripDetail per strip, in input order.
+
+    ``not_detailed``: ids of the project's strips that could not be designed and are left
+    out of this issue (the drawing's sheets then say the issue is incomplete)."""
 
     project: Project
     strips: tuple[StripDetail, ...]
+    not_detailed: tuple[str, ...] = ()

@@ -287,6 +287,9 @@ class Project:
     analysis: AnalysisOptions = field(default_factory=AnalysisOptions)
     strips: tuple[Strip, ...] = ()
     code_id: str = DEFAULT_CODE_ID
+    # What reading the input repaired (DXF recovery of a damaged general arrangement), for
+    # the user to see; no part of the design.
+    input_notes: tuple[str, ...] = ()
 
     def strip(self, strip_id: str) -> Strip:
         for s in self.strips:

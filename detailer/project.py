@@ -20,6 +20,7 @@ __all__ = [
     "read_project_text",
 ]
 
+import dataclasses
 import difflib
 import math
 import os
@@ -254,13 +255,14 @@ def parse_project(text: str, file: str = "<project>") -> Project:
             f"{len(strips)} strips are more than the {MAX_STRIPS} one project file may have",
             "split the floor into several project files",
         )
-    merged = apply_general_arrangement(locator.merge_defaults(data), file, locator.error)
+    merged, notes = apply_general_arrangement(locator.merge_defaults(data), file, locator.error)
     try:
         validated = FileIn.model_validate(merged)
     except ValidationError as exc:
         errors = _drop_misspelt_missing(exc.errors())
         raise ProjectErrors(_dedupe([locator.pydantic_error(e) for e in errors])) from None
-    return build_project(validated, locator.error)
+    project = build_project(validated, locator.error)
+    return dataclasses.replace(project, input_notes=notes) if notes else project
 
 
 def _drop_misspelt_missing(errors: list[Any]) -> list[Any]:

@@ -29,12 +29,14 @@ _FROM_DRAWING = ("spans_mm", "supports_mm", "support_widths_mm")
 
 def apply_general_arrangement(
     merged: dict[str, Any], file: str, error: ErrorFactory
-) -> dict[str, Any]:
-    """Return the project data with each strip's geometry taken from the DXF (pure but for
-    reading the drawing). ``error(path, message, fix)`` builds a located ProjectError."""
+) -> tuple[dict[str, Any], tuple[str, ...]]:
+    """The project data with each strip's geometry taken from the DXF (pure but for reading
+    the drawing), and the reader's notes on what recovery repaired in a damaged drawing
+    (empty for a sound one, or without a ``geometry:`` block). ``error(path, message,
+    fix)`` builds a located ProjectError."""
     geometry = merged.get("geometry")
     if geometry is None:
-        return merged
+        return merged, ()
     from detailer.io.dxf_reader import GALayers, read_general_arrangement
 
     if not isinstance(geometry, dict) or "dxf" not in geometry:
@@ -70,7 +72,7 @@ def apply_general_arrangement(
 
     strips = merged.get("strips")
     if not isinstance(strips, list):
-        return {k: v for k, v in merged.items() if k != "geometry"}
+        return {k: v for k, v in merged.items() if k != "geometry"}, ga.notes
     out = []
     for i, s in enumerate(strips):
         if not isinstance(s, dict):
@@ -136,4 +138,4 @@ def apply_general_arrangement(
         out.append(s)
     result = {k: v for k, v in merged.items() if k != "geometry"}
     result["strips"] = out
-    return result
+    return result, ga.notes

@@ -95,6 +95,19 @@ def test_the_drawing_has_a_sheet_for_every_detailed_strip_only(failing_build) ->
     assert sheets == sorted(f"Strip F{i:03d}" for i in range(1, N + 1) if i != 4)
     code = main(["audit", str(out / f"{PID}-layout.dxf"), str(out / f"{PID}-schedule.csv")])
     assert code == 0
+    # Every sheet says the issue is incomplete and names the strip left out, first of its
+    # general notes: a sheet is often read on its own, away from the schedule and report.
+    for name in sheets:
+        texts = [e.dxf.text for e in doc.layouts.get(name).query("TEXT")]
+        at = next(i for i, t in enumerate(texts) if t.startswith("INCOMPLETE ISSUE"))
+        assert texts[at - 1] == "GENERAL NOTES" and FAIL in " ".join(texts[at : at + 3])
+
+
+def test_a_complete_issue_has_no_incomplete_note(tmp_path: Path) -> None:
+    project = parse_project(floor_yaml(3), "floor.yaml")
+    result = build_outputs(project, options=BuildOptions(workers=0, previews=False))
+    dxf = dict(result.files)["floor-3-layout.dxf"].decode("utf-8")
+    assert "GENERAL NOTES" in dxf and "INCOMPLETE" not in dxf
 
 
 def test_workers_do_not_change_a_single_byte() -> None:
@@ -299,3 +312,16 @@ def test_the_build_audits_its_own_drawing_against_its_schedule(
     project = parse_project(floor_yaml(N), "floor.yaml")
     with pytest.raises(DesignError, match="disagrees with the schedule"):
         build_outputs(project, options=BuildOptions(workers=2, previews=False))
+
+
+def test_the_incomplete_note_names_a_dozen_strips_and_counts_the_rest() -> None:
+    from detailer.io.dxf_sheet import NOT_DETAILED_NAMED, general_notes
+
+    project = parse_project(floor_yaml(3), "floor.yaml")
+    detail = build_outputs(project, options=BuildOptions(workers=0, previews=False)).detail
+    missing = tuple(f"X{i:03d}" for i in range(NOT_DETAILED_NAMED + 8))
+    notes = general_notes(detail.project, detail.strips[0], not_detailed=missing)
+    assert notes[0] == "GENERAL NOTES" and notes[1].startswith("INCOMPLETE ISSUE")
+    assert f"X{NOT_DETAILED_NAMED - 1:03d} and 8 more" in notes[1]
+    assert f"X{NOT_DETAILED_NAMED:03d}" not in notes[1]
+    assert notes[-1].startswith("Caution")  # the usual caution stays last

@@ -75,3 +75,30 @@ def test_missing_drawing_is_one_line(tmp_path):
     with pytest.raises(ProjectError) as err:
         load_project(p)
     assert "ga.dxf" in str(err.value) and "\n" not in str(err.value)
+
+
+def _drop_entities_endsec(path) -> None:
+    """Damage the drawing as in tests/test_dxf_reader.py: the ENDSEC of ENTITIES removed,
+    which ezdxf's recovery repairs (ezdxf docs, recover module)."""
+    lines = path.read_text().split("\n")
+    i = lines.index("ENTITIES")
+    j = next(k for k in range(i, len(lines)) if lines[k] == "ENDSEC")
+    path.write_text("\n".join(lines[: j - 1] + lines[j + 1 :]))
+
+
+def test_repairs_to_a_damaged_drawing_reach_the_user(tmp_path, capsys):
+    # The project's own rule (README, on input mistakes): what recovery repaired is shown,
+    # one line each, and the build goes on; a sound drawing gives no note.
+    from detailer.cli import main
+
+    p = write(tmp_path)
+    assert load_project(p).input_notes == ()
+    _drop_entities_endsec(tmp_path / "ga.dxf")
+    project = load_project(p)
+    assert project.input_notes and all("ga.dxf" in n for n in project.input_notes)
+    code = main(["build", str(p), "--out", str(tmp_path / "out"), "--no-previews"])
+    err = capsys.readouterr().err
+    notes = [line for line in err.splitlines() if line.startswith("note: ")]
+    assert code == 0 and notes and any("ENDSEC" in n for n in notes)
+    assert "Traceback" not in err
+    assert (tmp_path / "out" / "ga-test-layout.dxf").is_file()

@@ -84,6 +84,7 @@ class SheetPlan:
     notes_top: float  # paper y of the first notes line
     title_box: Box
     revision_table: RevisionTable | None = None  # on the title block; None: no revisions
+    notes: tuple[str, ...] = ()  # the general notes (``general_notes``), before wrapping
 
 
 def _detail_box_fits(b: Box, s: int) -> bool:
@@ -110,12 +111,14 @@ def choose_sheet(
     *,
     revisions: tuple[RevisionRecord, ...] = (),
     changed_set_ids: frozenset[tuple[str, str]] = frozenset(),
+    not_detailed: tuple[str, ...] = (),
 ) -> SheetPlan:
     """The sheet, scales and viewports for one strip (see the module docstring for the rule).
 
     ``revisions`` fill the revision table (oldest first); bar sets in ``changed_set_ids`` get
     a marker of the newest revision (the project's when ``revisions`` is empty); they are
-    (strip id, set id) pairs, set ids being unique within a strip only.
+    (strip id, set id) pairs, set ids being unique within a strip only. ``not_detailed``:
+    the project's strips left out of this issue, named in the notes.
     """
     letter = revisions[-1].revision if revisions else project.revision
     changed = frozenset(changed_set_ids)
@@ -134,7 +137,8 @@ def choose_sheet(
     # overflows the sheet need no trial layout.
     geom = StripGeometry.of(sd.strip)
     slab_mm = geom.slab_right_mm - geom.slab_left_mm
-    n_notes = notes_lines_count(general_notes(project, sd))
+    notes = general_notes(project, sd, not_detailed=not_detailed)
+    n_notes = notes_lines_count(notes)
     options = [(A2, s) for s in MAIN_SCALES if s <= A2_SMALLEST_SCALE]
     options += [(A1, s) for s in MAIN_SCALES + LONG_STRIP_SCALES]
     chosen = None
@@ -155,11 +159,14 @@ def choose_sheet(
     if chosen is None:  # longer than 1:500 on A1 allows: keep 1:500, the viewport crops
         chosen = (A1, plan_at(LONG_STRIP_SCALES[-1], detail_scale))
     sheet, plan = chosen
-    return _sheet_plan(sheet, plan, revisions)
+    return _sheet_plan(sheet, plan, revisions, notes)
 
 
 def _sheet_plan(
-    sheet: Sheet, plan: StripPlan, revisions: tuple[RevisionRecord, ...] = ()
+    sheet: Sheet,
+    plan: StripPlan,
+    revisions: tuple[RevisionRecord, ...] = (),
+    notes: tuple[str, ...] = (),
 ) -> SheetPlan:
     frame = Box(FRAME_LEFT_MM, FRAME_MM, sheet.width_mm - FRAME_MM, sheet.height_mm - FRAME_MM)
     column = Box(frame.x1 - COLUMN_MM, frame.y0, frame.x1, frame.y1)
@@ -188,7 +195,7 @@ def _sheet_plan(
     notes_top = column.y1 - 6.0 - dh - 8.0
     title_box = Box(column.x0, column.y0, column.x1, column.y0 + TITLE_BLOCK_H_MM)
     table = revision_table(revisions, column.x0, column.x1, title_box.y1)
-    return SheetPlan(sheet, plan, frame, column, main, detail, notes_top, title_box, table)
+    return SheetPlan(sheet, plan, frame, column, main, detail, notes_top, title_box, table, notes)
 
 
 def _mm(value: float) -> str:
@@ -196,8 +203,17 @@ def _mm(value: float) -> str:
     return f"{math.ceil(value - 1e-6):d}"
 
 
-def general_notes(project: Project, sd: StripDetail) -> tuple[str, ...]:
-    """The general notes of a strip's sheet, one string per note (before wrapping)."""
+# Strips named on a sheet of an incomplete issue; the rest are counted (the schedule header,
+# record and report list them all).
+NOT_DETAILED_NAMED = 12
+
+
+def general_notes(
+    project: Project, sd: StripDetail, *, not_detailed: tuple[str, ...] = ()
+) -> tuple[str, ...]:
+    """The general notes of a strip's sheet, one string per note (before wrapping).
+    ``not_detailed``: strips of the project left out of this issue; the notes then open
+    with a warning that the issue is incomplete."""
     strip = sd.strip
     m = project.materials
     notes = [
@@ -237,6 +253,15 @@ def general_notes(project: Project, sd: StripDetail) -> tuple[str, ...]:
         f"revision {project.revision}."
     )
     lines = ["GENERAL NOTES"]
+    if not_detailed:
+        named = ", ".join(not_detailed[:NOT_DETAILED_NAMED])
+        more = len(not_detailed) - NOT_DETAILED_NAMED
+        if more > 0:
+            named += f" and {more} more"
+        lines.append(
+            f"INCOMPLETE ISSUE: strip(s) {named} of this project could not be designed and "
+            "are not on this drawing or its schedule (reasons in the calculation report)."
+        )
     lines += [f"{i}. {t}" for i, t in enumerate(notes, start=1)]
     lines += anchorage
     lines += [f"{i}. {t}" for i, t in enumerate(later, start=len(notes) + 1)]

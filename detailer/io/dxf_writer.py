@@ -63,7 +63,7 @@ from detailer.io.dxf_sheet import (
     wrap_notes,
 )
 from detailer.io.dxf_text import document_text
-from detailer.layout import ProjectDetail
+from detailer.layout import ProjectDetail, StripDetail
 from detailer.record import RevisionRecord
 
 #: Gap between two strips' regions in model space, mm.
@@ -140,9 +140,7 @@ def build_layout(
     chosen = part if part is not None else range(len(detail.strips))
     strips = [detail.strips[i] for i in chosen]
     if plans is None:
-        plans = [
-            choose_sheet(project, sd, revisions=history, changed_set_ids=changed) for sd in strips
-        ]
+        plans = [strip_sheet(detail, sd, history, changed) for sd in strips]
     elif len(plans) != len(strips):
         raise ValueError(f"{len(plans)} sheet plans for {len(strips)} strips")
     plans = list(plans)
@@ -179,10 +177,24 @@ def sheet_plans(
 ) -> list[SheetPlan]:
     """The sheet of every strip, as :func:`build_layout` chooses them (pure, per strip)."""
     history, changed = tuple(revisions), frozenset(changed_set_ids)
-    return [
-        choose_sheet(detail.project, sd, revisions=history, changed_set_ids=changed)
-        for sd in detail.strips
-    ]
+    return [strip_sheet(detail, sd, history, changed) for sd in detail.strips]
+
+
+def strip_sheet(
+    detail: ProjectDetail,
+    sd: StripDetail,
+    revisions: tuple[RevisionRecord, ...] = (),
+    changed_set_ids: frozenset[tuple[str, str]] = frozenset(),
+) -> SheetPlan:
+    """The sheet of one strip of ``detail`` (:func:`detailer.io.dxf_sheet.choose_sheet`,
+    with the strips this issue left out named in its notes)."""
+    return choose_sheet(
+        detail.project,
+        sd,
+        revisions=revisions,
+        changed_set_ids=changed_set_ids,
+        not_detailed=detail.not_detailed,
+    )
 
 
 def _stable_classes(doc: Drawing) -> None:
@@ -352,7 +364,7 @@ def _sheet(
         _xdata(e, (("kind", "viewport"), ("strip", sd.strip.id), ("scale", f"1:{s}")))
     notes = st.NOTES_LAYER.name
     y = sp.notes_top
-    for line in wrap_notes(general_notes(project, sd)):
+    for line in wrap_notes(sp.notes or general_notes(project, sd)):
         if line.strip():
             e = psp.add_text(
                 line.rstrip(), height=NOTE_TEXT_MM, dxfattribs=_attribs(notes, style=st.TEXT_STYLE)
