@@ -75,27 +75,18 @@ def _parser() -> argparse.ArgumentParser:
         help="worker processes (default: one per CPU when there are more than a handful of "
         "strips; 1: none)",
     )
-    previews = build.add_mutually_exclusive_group()
-    previews.add_argument(
+    build.add_argument(
         "--previews",
-        dest="previews",
-        action="store_true",
+        action=argparse.BooleanOptionalAction,
         default=None,
-        help="write a PNG preview of every sheet (default: only for projects of up to 8 strips)",
+        help="write a PNG preview of every sheet, or none (default: only for projects of up "
+        "to 8 strips)",
     )
-    previews.add_argument(
-        "--no-previews", dest="previews", action="store_false", help="write no PNG previews"
-    )
-    shown = build.add_mutually_exclusive_group()
-    shown.add_argument(
+    build.add_argument(
         "--progress",
-        dest="progress",
-        action="store_true",
+        action=argparse.BooleanOptionalAction,
         default=None,
-        help="show progress bars on stderr (default: when stderr is a terminal)",
-    )
-    shown.add_argument(
-        "--no-progress", dest="progress", action="store_false", help="show no progress bars"
+        help="show progress bars on stderr, or none (default: when stderr is a terminal)",
     )
     compare = sub.add_parser(
         "compare",

@@ -124,27 +124,20 @@ class _Reader:
         self._constructor = yaml.SafeLoader("")
         self._values = 0
 
-    def _error(self, node: Node, path: Path, message: str, fix: str) -> None:
-        self.errors.append(
-            ProjectError(
-                self.file,
-                message,
-                line=node.start_mark.line + 1,
-                key_path=format_key_path(path) or DOCUMENT,
-                fix=fix,
-            )
+    def _located(self, node: Node, path: Path, message: str, fix: str) -> ProjectError:
+        return ProjectError(
+            self.file,
+            message,
+            line=node.start_mark.line + 1,
+            key_path=format_key_path(path) or DOCUMENT,
+            fix=fix,
         )
 
+    def _error(self, node: Node, path: Path, message: str, fix: str) -> None:
+        self.errors.append(self._located(node, path, message, fix))
+
     def _stop(self, node: Node, path: Path, message: str, fix: str) -> _Stop:
-        return _Stop(
-            ProjectError(
-                self.file,
-                message,
-                line=node.start_mark.line + 1,
-                key_path=format_key_path(path) or DOCUMENT,
-                fix=fix,
-            )
-        )
+        return _Stop(self._located(node, path, message, fix))
 
     def walk(self, node: Node, path: Path, depth: int) -> Any:
         # Aliases are the same node again: a recursive anchor never ends, a nested one explodes.

@@ -39,6 +39,7 @@ from detailer.strip_analysis import (
     strip_loads,
     strip_model_variants,
 )
+from tests.beam_strategies import spans_and_ends
 from tests.floor_factory import floor_yaml
 from tests.strip_factory import build_project, strip_specs
 
@@ -61,17 +62,7 @@ def strip_cases(draw: st.DrawFn) -> tuple[BeamModel, list[list[Load]]]:
     """One strip of a floor: 1-6 spans, pinned or fixed ends, cantilevers, support widths,
     EI and station spacing of its own; 0-5 cases of full, partial, point (also at and
     within the tolerance of the nodes) and negative loads."""
-    n = draw(st.integers(1, 6))
-    spans = [draw(st.integers(30, 180)) * 50.0 for _ in range(n)]  # 1.5 .. 9 m
-    left, right = draw(st.sampled_from([PIN, FIX])), draw(st.sampled_from([PIN, FIX]))
-    if draw(st.booleans()):
-        spans.insert(0, draw(st.integers(10, 50)) * 50.0)
-        left = FREE
-    if draw(st.booleans()) and not (left is FREE and n == 1):
-        spans.append(draw(st.integers(10, 50)) * 50.0)
-        right = FREE
-    if len(spans) == 1 and FREE in (left, right):
-        left, right = (FIX, FREE) if right is FREE else (FREE, FIX)
+    spans, left, right = spans_and_ends(draw, max_spans=6, shortest_span_mm=1500.0)
     model = BeamModel.from_spans(
         spans,
         left,

@@ -17,24 +17,14 @@ from hypothesis import strategies as st
 
 from analysis.beam import BeamModel, Load, PointLoad, Restraint, UniformLoad
 from analysis.stiffness import CaseResults, solve
+from tests.beam_strategies import spans_and_ends
 
 PIN, FIX, FREE = Restraint.PINNED, Restraint.FIXED, Restraint.FREE
 
 
 @st.composite
 def strips(draw: st.DrawFn, max_spans: int = 5) -> tuple[BeamModel, list[list[Load]]]:
-    n = draw(st.integers(1, max_spans))
-    spans = [draw(st.integers(40, 180)) * 50.0 for _ in range(n)]  # 2.0 .. 9.0 m
-    left = draw(st.sampled_from([PIN, FIX]))
-    right = draw(st.sampled_from([PIN, FIX]))
-    if draw(st.booleans()):
-        spans.insert(0, draw(st.integers(10, 50)) * 50.0)
-        left = FREE
-    if draw(st.booleans()) and not (left is FREE and n == 1):
-        spans.append(draw(st.integers(10, 50)) * 50.0)
-        right = FREE
-    if len(spans) == 1 and FREE in (left, right):
-        left, right = (FIX, FREE) if right is FREE else (FREE, FIX)
+    spans, left, right = spans_and_ends(draw, max_spans=max_spans, shortest_span_mm=2000.0)
     width = draw(st.sampled_from([0.0, 200.0, 350.0]))
     model = BeamModel.from_spans(spans, left, right, support_width_mm=width)
     cases: list[list[Load]] = []

@@ -58,7 +58,6 @@ from detailer.io.dxf_sheet import (
     NOTE_TEXT_MM,
     SheetPlan,
     choose_sheet,
-    general_notes,
     title_fields,
     wrap_notes,
 )
@@ -364,7 +363,7 @@ def _sheet(
         _xdata(e, (("kind", "viewport"), ("strip", sd.strip.id), ("scale", f"1:{s}")))
     notes = st.NOTES_LAYER.name
     y = sp.notes_top
-    for line in wrap_notes(sp.notes or general_notes(project, sd)):
+    for line in wrap_notes(sp.notes):
         if line.strip():
             e = psp.add_text(
                 line.rstrip(), height=NOTE_TEXT_MM, dxfattribs=_attribs(notes, style=st.TEXT_STYLE)
