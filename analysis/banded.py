@@ -135,8 +135,10 @@ class BlockBandedCholesky:
         b = np.asarray(b, dtype=float)
         if b.ndim != 3 or b.shape[:2] != (n_b, n_blocks):
             raise ValueError(f"right-hand sides must have shape ({n_b}, {n_blocks}, m)")
-        low = self.lower[..., None]  # broadcast over the right-hand sides
-        y = np.array(b)
+        # Worked as (n_b, m, n_blocks): every operation runs along the blocks (the long
+        # axis), each factor entry broadcast over the right-hand sides.
+        low = self.lower[:, :, None, :]
+        y = np.ascontiguousarray(b.transpose(0, 2, 1))
         for j in range(n_b):  # forward substitution L y = b
             for k in range(1, min(p1, j + 1)):
                 y[j] -= low[k, j - k] * y[j - k]
@@ -145,7 +147,7 @@ class BlockBandedCholesky:
             for k in range(1, min(p1, n_b - j)):
                 y[j] -= low[k, j] * y[j + k]
             y[j] /= low[0, j]
-        return y
+        return y.transpose(0, 2, 1)
 
 
 def cholesky_banded_blocks(ab: np.ndarray) -> tuple[BlockBandedCholesky, np.ndarray]:

@@ -24,8 +24,10 @@ from __future__ import annotations
 
 import dataclasses
 import itertools
-from collections.abc import Callable, Sequence
+from collections import deque
+from collections.abc import Sequence
 from dataclasses import dataclass
+from itertools import repeat
 from operator import attrgetter
 from typing import Any
 
@@ -34,15 +36,8 @@ import numpy as np
 from analysis.banded import cholesky_banded_blocks
 from analysis.beam import BeamModel, Load
 from analysis.floor_values import station_values
-from analysis.stations import (
-    FreeTerms,
-    LoadTable,
-    Stations,
-    free_term_arrays,
-    load_table,
-    stacked_load_table,
-    station_arrays,
-)
+from analysis.load_table import LoadTable, load_table, stacked_load_table
+from analysis.stations import FreeTerms, Stations, free_term_arrays, station_arrays
 from analysis.stiffness import (
     CaseResults,
     Frame,
@@ -72,8 +67,8 @@ class _StripError(Exception):
 @dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
 class _Floor:
     """Every strip's geometry, stations and node results side by side (internal). Node
-    arrays are (n_nodes, n_cols) over all strips' nodes (a node's cases are one row); a
-    strip's cases are its first columns. Offsets have one entry per strip plus one."""
+    arrays are (n_cols, n_nodes) over all strips' nodes, as ``NodeSolution`` holds them; a
+    strip's cases are its first rows. Offsets have one entry per strip plus one."""
 
     models: tuple[BeamModel, ...]
     n_cases: tuple[int, ...]
@@ -89,6 +84,7 @@ class _Floor:
     st_local_mm: np.ndarray  # (n_st,)
     st_side: np.ndarray  # (n_st,)
     st_start: np.ndarray  # (n_st_floor + 1,) stations of floor segment j: st_start[j]:[j+1]
+    st_grid: np.ndarray  # (n_st,) grid point of each station, -1 off the grid
     stations: tuple[Stations, ...]
     node_m: np.ndarray
     reactions: np.ndarray
@@ -127,16 +123,16 @@ def solve_nodes_floor(
             v0=f_v0[e0:e1],
             j0=f_j0[e0:e1],
         )
-        node_m = fl.node_m[n0:n1, :nc].T
+        node_m = fl.node_m[:nc, n0:n1]
         out[order[k]] = NodeSolution(
             model=model,
             stations=stations,
             free=free,
             node_moment_knm=node_m,
             elastic_node_moment_knm=node_m,
-            reactions_kn=fl.reactions[n0:n1, :nc].T,
-            node_v_m=fl.node_v_m[n0:n1, :nc].T,
-            node_theta_rad=fl.node_theta[n0:n1, :nc].T,
+            reactions_kn=fl.reactions[:nc, n0:n1],
+            node_v_m=fl.node_v_m[:nc, n0:n1],
+            node_theta_rad=fl.node_theta[:nc, n0:n1],
         )
     return tuple(out)  # type: ignore[arg-type]
 
@@ -149,18 +145,23 @@ def solve_floor(
     fl, order = _solve(models, cases, names)
     if fl is None:
         return ()
-    # Reactions, moments, deflections (mm) and rotations of the nodes, one array.
+    # Reactions, moments, deflections (mm) and rotations of the nodes: (4, n_cols, n_nodes),
+    # so that a strip's part of each is a view (cases, its nodes) as CaseResults holds it.
     nodes = np.stack((fl.reactions, fl.node_m, fl.node_v_m * 1000.0, fl.node_theta))
     _freeze(nodes)
-    st_off, node_off, n_cases = fl.st_off.tolist(), fl.node_off.tolist(), fl.n_cases
-    out: list[CaseResults | None] = [None] * len(order)
-    for g0, g1, values in station_values(fl):
+    node_off, n_cases = fl.node_off.tolist(), fl.n_cases
+    at_nodes = list(zip(map(slice, repeat(0), n_cases), _slices(node_off)))
+    node_views = [list(map(q.__getitem__, at_nodes)) for q in nodes]
+    st_off = fl.st_off.tolist()
+    station_views: list[list[np.ndarray]] = [[], [], []]
+    for g0, g1, values in station_values(fl):  # values (3, cases, stations of the run)
         base = st_off[g0]
-        for k in range(g0, g1):
-            m, v, d = values[:, :, st_off[k] - base : st_off[k + 1] - base]
-            r, mn, dn, th = nodes[:, node_off[k] : node_off[k + 1], : n_cases[k]].transpose(0, 2, 1)
-            out[order[k]] = _case_results(fl.stations[k], m, v, d, r, mn, dn, th)
-    return tuple(out)  # type: ignore[arg-type]
+        local = [s - base for s in st_off[g0 : g1 + 1]]
+        at_stations = list(zip(repeat(slice(None)), _slices(local)))
+        for views, q in zip(station_views, values):
+            views.extend(map(q.__getitem__, at_stations))
+    made = _new_many(CaseResults, fl.stations, *station_views, *node_views)
+    return tuple(map(made.__getitem__, np.argsort(order).tolist()))
 
 
 def _freeze(*arrays: np.ndarray) -> None:
@@ -168,25 +169,27 @@ def _freeze(*arrays: np.ndarray) -> None:
         a.setflags(write=False)
 
 
-def _of_views(cls: type) -> Callable[..., Any]:
-    """A constructor of the frozen slots dataclass ``cls`` from its fields in order, for
-    views of the floor's read-only arrays: the fields are set as ``__init__`` sets them,
-    without ``__post_init__`` (which would only mark read-only views read-only again).
-    Hundreds of strips make thousands of these objects; this is a third of their cost."""
-    setters = [getattr(cls, f.name).__set__ for f in dataclasses.fields(cls)]
-    new = object.__new__
-
-    def make(*values: object) -> Any:
-        obj = new(cls)
-        for put, value in zip(setters, values, strict=True):
-            put(obj, value)
-        return obj
-
-    return make
+def _slices(offsets: list[int]) -> list[slice]:
+    """slice(offsets[k], offsets[k + 1]) for every k."""
+    return list(map(slice, offsets[:-1], offsets[1:]))
 
 
-_case_results = _of_views(CaseResults)
-_stations = _of_views(Stations)
+def _new_many(cls: type, *columns: Sequence[object]) -> list[Any]:
+    """Objects of the frozen slots dataclass ``cls``, object k with ``columns[i][k]`` as its
+    field i, for views of the floor's read-only arrays: the fields are set as ``__init__``
+    sets them but without ``__post_init__`` (which would only mark read-only views read-only
+    again), and column by column at C level (``map``), not object by object in Python:
+    hundreds of strips make thousands of these objects."""
+    fields = dataclasses.fields(cls)
+    if len(columns) != len(fields):
+        raise TypeError(f"{cls.__name__} has {len(fields)} fields, got {len(columns)} columns")
+    n = len(columns[0])
+    made = list(map(object.__new__, repeat(cls, n)))
+    for f, column in zip(fields, columns):
+        if len(column) != n:
+            raise ValueError(f"{cls.__name__}.{f.name}: {len(column)} values for {n} objects")
+        deque(map(getattr(cls, f.name).__set__, made, column), maxlen=0)
+    return made
 
 
 # --------------------------------------------------------------------------- the solve
@@ -286,12 +289,13 @@ def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) 
         table = _slow_table(models, cases, names, n_cols, seg_off)
 
     # Stations of every strip.
-    st_seg, local, side, start = station_arrays(
+    st_seg, local, side, start, grid = station_arrays(
         length_mm, n_div[model_of_el], half[left], half[left + 1], table
     )
     st_off = start[seg_off]
-    x_mm = node_x[left][st_seg] + local
-    local_seg = st_seg - seg_off[model_of_el[st_seg]]
+    per_seg = np.diff(start)
+    x_mm = np.repeat(node_x[left], per_seg) + local
+    local_seg = np.repeat(np.arange(left.size) - seg_off[model_of_el], per_seg)
     starts = _strip_starts(start, seg_off, st_off, n_nodes - 1)
     _freeze(x_mm, local_seg, local, side, starts)
     stations = _strip_stations(x_mm, local_seg, local, side, starts, st_off, seg_off)
@@ -304,8 +308,8 @@ def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) 
     n_free = np.bincount(dof_model, minlength=n_models)
     red_off = _offsets(n_free)
     red_j = np.arange(dof_model.size) - red_off[dof_model]  # position within its block
-    fe_el, f_full = load_vectors(frame, table)
-    d_full = np.zeros_like(f_full)
+    fe_el, f_t = load_vectors(frame, table)
+    d_t = np.zeros_like(f_t)  # (n_cols, 2 n_nodes)
     n_b = int(n_free.max(initial=0))
     if n_b:
         p = int(band_k.max(initial=0))
@@ -317,10 +321,10 @@ def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) 
             k = int(np.argmax(singular))
             raise _StripError(k, "the beam model is a mechanism (not enough supports)")
         rhs = np.zeros((n_b, n_models, n_cols))
-        rhs[red_j, dof_model] = f_full[free]
-        d_full[free] = factor.solve(rhs)[red_j, dof_model]
-    node_m, reactions = node_results(frame, ke, d_full, fe_el)
-    node_arrays = [node_m, reactions, d_full[0::2], d_full[1::2]]
+        rhs[red_j, dof_model] = f_t[:, free].T
+        d_t[:, free] = factor.solve(rhs)[red_j, dof_model].T
+    node_m, reactions = node_results(frame, ke, d_t, fe_el)
+    node_arrays = [node_m, reactions, d_t[:, 0::2], d_t[:, 1::2]]
     _freeze(*node_arrays)
     return _Floor(
         models,
@@ -337,6 +341,7 @@ def _floor(models: tuple[BeamModel, ...], cases: FloorCases, names: FloorNames) 
         local,
         side,
         start,
+        grid,
         stations,
         *node_arrays,
     )
@@ -352,21 +357,11 @@ def _strip_stations(
     seg_off: np.ndarray,
 ) -> tuple[Stations, ...]:
     """Each strip's ``Stations``, views of the floor's arrays."""
-    out = []
-    st, sg = st_off.tolist(), seg_off.tolist()
-    for k in range(len(st) - 1):
-        a, b = st[k], st[k + 1]
-        s0 = sg[k] + k
-        out.append(
-            _stations(
-                x_mm[a:b],
-                local_seg[a:b],
-                local_mm[a:b],
-                side[a:b],
-                starts[s0 : s0 + sg[k + 1] - sg[k] + 1],
-            )
-        )
-    return tuple(out)
+    at = _slices(st_off.tolist())
+    # Strip k's segment starts: its n_seg + 1 entries, from seg_off[k] + k.
+    start_off = (seg_off + np.arange(seg_off.size)).tolist()
+    columns = [list(map(a.__getitem__, at)) for a in (x_mm, local_seg, local_mm, side)]
+    return tuple(_new_many(Stations, *columns, list(map(starts.__getitem__, _slices(start_off)))))
 
 
 def _strip_starts(

@@ -13,7 +13,8 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from analysis.stations import LoadTable, free_term_arrays, full_line_loads
+from analysis.load_table import LoadTable
+from analysis.stations import free_term_arrays, full_line_loads
 
 if TYPE_CHECKING:
     from analysis.floor import _Floor
@@ -37,32 +38,29 @@ def station_values(
     the few stations off the grid (support faces, load points) are evaluated one by one.
     """
     frame, table = fl.frame, fl.table
-    n_cols = fl.node_m.shape[1]
+    n_cols = fl.node_m.shape[0]
     left, right = frame.left, frame.left + 1
     length = frame.length_m
     full = full_line_loads(table, length)
-    w = np.zeros((length.size, n_cols))
-    np.add.at(w, (table.segment[full], table.case[full]), table.intensity[full])
+    w = np.zeros((n_cols, length.size))
+    np.add.at(w, (table.case[full], table.segment[full]), table.intensity[full])
     k_ei = -1000.0 / fl.ei_el
-    m_l, m_r = fl.node_m[left], fl.node_m[right]
-    # Per segment (rows) and case (columns).
+    m_l, m_r = fl.node_m[:, left], fl.node_m[:, right]
+    # Per case (rows) and segment (columns).
     rows = {
         "m_l": m_l,
         "m_r": m_r,
         "w": w,
-        "slope": (m_r - m_l) / length[:, None],
-        "v_l": fl.node_v_m[left] * 1000.0,
-        "th_l": fl.node_theta[left] * 1000.0,
+        "slope": (m_r - m_l) / length,
+        "v_l": fl.node_v_m[:, left] * 1000.0,
+        "th_l": fl.node_theta[:, left] * 1000.0,
     }
     coefficients = _grid_coefficients(rows, length, k_ei)
     # Per station: its grid point (stations off the grid are evaluated on their own).
     seg = fl.st_seg
     local = fl.st_local_mm
-    n_div = fl.n_div[seg]
-    l_mm = fl.length_mm[seg]
-    grid_i = np.rint(local / l_mm * n_div).astype(np.intp)
-    off = np.flatnonzero(local != l_mm * (grid_i / n_div))  # the grid of ``station_arrays``
-    grid_i[off] = 0
+    grid_i = fl.st_grid
+    off = np.flatnonzero(grid_i < 0)
     extra = _off_grid(rows, seg[off], local[off] / 1000.0, length, k_ei)
     # Free terms of the other loads, at every station of their segments.
     f_case, f_st, f_m0, f_v0, f_j0 = free_term_arrays(
@@ -93,7 +91,7 @@ def station_values(
         o0, o1 = np.searchsorted(off, [a, b])
         if o1 > o0:
             for o, x in zip(out, extra):
-                o[off[o0:o1] - a] = x[o0:o1, :nc]
+                o[off[o0:o1] - a] = x[:nc, o0:o1].T
         f0, f1 = np.searchsorted(f_st, [a, b])
         if f1 > f0:
             where = (f_st[f0:f1] - a, f_case[f0:f1])
@@ -135,9 +133,9 @@ def _on_grid(
     scratch: np.ndarray,
 ) -> None:
     """(M, V, deflection) at the stations of segments e0:e1 into ``out`` (3, stations from
-    station ``a``, n_cases), from the grid values t = i / n of each segment (stations off
-    the grid get grid point 0 here: the caller overwrites them). ``scratch`` holds the grid
-    values of ``_SEGMENTS`` segments.
+    station ``a``, n_cases), from the grid values t = i / n of each segment (``grid_i``;
+    a station off the grid, -1, gets some grid row, clipped: the caller overwrites it).
+    ``scratch`` holds the grid values of ``_SEGMENTS`` segments.
 
     The grid values come out as rows (grid point, segment) of every case, so each station
     copies one row of n_cases values: far fewer, longer copies than one value at a time.
@@ -160,16 +158,16 @@ def _grid_coefficients(
     rows: dict[str, np.ndarray], length: np.ndarray, k_ei: np.ndarray
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Coefficients (n_terms, n_seg, n_cases) of M, V and deflection on the shapes of
-    ``_grid_shapes``, per segment and case."""
+    ``_grid_shapes``, per segment and case, from ``rows`` per case and segment."""
     m_l, m_r, w = rows["m_l"], rows["m_r"], rows["w"]
-    length = length[:, None]
-    l2 = length**2
-    k2 = k_ei[:, None] * l2
-    return (
-        np.stack((m_l, m_r, w * (0.5 * l2))),
-        np.stack((rows["slope"], w * length)),
-        np.stack((rows["v_l"], rows["th_l"] * length, m_l * k2, m_r * k2, w * (k2 * l2))),
+    l2 = length * length
+    k2 = k_ei * l2
+    terms = (
+        (m_l, m_r, w * (0.5 * l2)),
+        (rows["slope"], w * length),
+        (rows["v_l"], rows["th_l"] * length, m_l * k2, m_r * k2, w * (k2 * l2)),
     )
+    return tuple(np.stack([t.T for t in group]) for group in terms)  # type: ignore[return-value]
 
 
 @functools.cache
@@ -197,11 +195,11 @@ def _off_grid(
     k_ei: np.ndarray,
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """(M, V, deflection) at stations x (m) of segments ``seg`` of ``rows``, each
-    (n_stations, n_cases)."""
-    ln, k, x = length[seg, None], k_ei[seg, None], x[:, None]
+    (n_cases, n_stations)."""
+    ln, k = length[seg], k_ei[seg]
     x3 = x * x * x
     c2 = x3 / (6.0 * ln)
-    g = {name: np.take(r, seg, axis=0) for name, r in rows.items()}
+    g = {name: np.take(r, seg, axis=1) for name, r in rows.items()}
     m = g["m_l"] * (1.0 - x / ln) + g["m_r"] * (x / ln) + g["w"] * (0.5 * x * (ln - x))
     v = g["slope"] + g["w"] * (0.5 * ln - x)
     d = g["v_l"] + g["th_l"] * x

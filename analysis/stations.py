@@ -12,32 +12,23 @@ from the right, 0 where shear is continuous. A segment's first station is +1, it
 
 from __future__ import annotations
 
-import itertools
 import math
-import operator
-from collections.abc import Sequence
 from dataclasses import dataclass
-from operator import attrgetter
 
 import numpy as np
 
-from analysis.beam import BeamModel, Load, PointLoad, UniformLoad
+from analysis.beam import BeamModel
+from analysis.load_table import POSITION_TOL_MM, LoadTable
 
 __all__ = [
     "FreeTerms",
-    "LoadTable",
     "Stations",
     "build_stations",
     "free_term_arrays",
     "free_terms",
     "full_line_loads",
-    "load_table",
-    "stacked_load_table",
     "station_arrays",
 ]
-
-# Positions closer than this (mm) are the same station.
-POSITION_TOL_MM = 1.0e-6
 
 
 def _frozen(a: np.ndarray) -> np.ndarray:
@@ -76,212 +67,6 @@ class Stations:
         return int(sl.start + hits[0]) if hits.size else None
 
 
-@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
-class LoadTable:
-    """All loads of all cases as flat arrays (validated). Lengths in m, forces in kN."""
-
-    n_cases: int
-    case: np.ndarray  # (n_loads,) int
-    segment: np.ndarray  # (n_loads,) int
-    is_point: np.ndarray  # (n_loads,) bool
-    intensity: np.ndarray  # (n_loads,) P in kN (point) or w in kN/m (line)
-    start_m: np.ndarray  # (n_loads,) a (point) or start of the line load, from the left node
-    end_m: np.ndarray  # (n_loads,) a (point) or end of the line load
-
-
-def _fail(where: str, what: str) -> ValueError:
-    return ValueError(f"{where}: {what}")
-
-
-def _where(names: Sequence[str] | None, k: int, i: int) -> str:
-    return f"{names[k] if names is not None else f'case {k}'}, load {i}"
-
-
-def load_table(
-    model: BeamModel, cases: Sequence[Sequence[Load]], names: Sequence[str] | None = None
-) -> LoadTable:
-    """Validate the loads of every case against the model and flatten them.
-
-    ``names`` optionally names each case in error messages (default "case k").
-    """
-    n_seg = model.n_segments
-    lengths = [model.segment_length_mm(j) for j in range(n_seg)]
-    case, seg, is_point, inten, start, end = [], [], [], [], [], []
-    isfinite = math.isfinite
-    tol = POSITION_TOL_MM
-    for k, loads in enumerate(cases):
-        for i, load in enumerate(loads):
-            if not isinstance(load, (UniformLoad, PointLoad)):
-                raise TypeError(
-                    f"{_where(names, k, i)}: expected UniformLoad or PointLoad, "
-                    f"got {type(load).__name__}"
-                )
-            j = load.segment
-            if type(j) is not int and (isinstance(j, bool) or not isinstance(j, np.integer)):
-                raise TypeError(f"{_where(names, k, i)}: segment {j!r} must be an integer index")
-            if not 0 <= j < n_seg:
-                raise _fail(
-                    _where(names, k, i),
-                    f"segment {j!r} does not exist (the strip has segments 0 to {n_seg - 1})",
-                )
-            length = lengths[j]
-            if isinstance(load, PointLoad):
-                a = load.a_mm
-                if not isfinite(load.p_kn):
-                    raise _fail(_where(names, k, i), "point load must be a finite number of kN")
-                if not (isfinite(a) and -tol <= a <= length + tol):
-                    raise _fail(
-                        _where(names, k, i),
-                        f"a_mm = {a!r} must lie on the segment (0..{length} mm)",
-                    )
-                a = 0.0 if a <= tol else (length if a >= length - tol else a)
-                lo = hi = a
-                is_point.append(True)
-                inten.append(float(load.p_kn))
-            else:
-                if not isfinite(load.w_kn_per_m):
-                    raise _fail(_where(names, k, i), "line load must be a finite number of kN/m")
-                lo = 0.0 if load.start_mm is None else load.start_mm
-                hi = length if load.end_mm is None else load.end_mm
-                if not (isfinite(lo) and isfinite(hi)):
-                    raise _fail(_where(names, k, i), "start_mm and end_mm must be finite")
-                if lo < -tol or hi > length + tol:
-                    raise _fail(
-                        _where(names, k, i),
-                        f"line load {lo}..{hi} mm is outside the segment (0..{length} mm)",
-                    )
-                if not hi - lo > tol:
-                    raise _fail(
-                        _where(names, k, i), f"line load needs start_mm < end_mm (got {lo}..{hi})"
-                    )
-                lo = 0.0 if lo <= tol else lo  # snap to the nodes within the tolerance
-                hi = length if hi >= length - tol else hi
-                is_point.append(False)
-                inten.append(float(load.w_kn_per_m))
-            case.append(k)
-            seg.append(int(j))
-            start.append(lo / 1000.0)
-            end.append(hi / 1000.0)
-    return LoadTable(
-        n_cases=len(cases),
-        case=np.array(case, dtype=np.intp),
-        segment=np.array(seg, dtype=np.intp),
-        is_point=np.array(is_point, dtype=bool),
-        intensity=np.array(inten, dtype=float),
-        start_m=np.array(start, dtype=float),
-        end_m=np.array(end, dtype=float),
-    )
-
-
-_LINE_FIELDS = ("w_kn_per_m", "start_mm", "end_mm")
-_POINT_FIELDS = ("p_kn", "a_mm")
-_NUMBER = {int, float}
-_NUMBER_OR_NONE = {int, float, type(None)}
-
-
-def stacked_load_table(
-    cases: Sequence[Sequence[Sequence[Load]]],
-    n_cases: tuple[int, ...],
-    n_cols: int,
-    n_seg: np.ndarray,
-    seg_off: np.ndarray,
-    length_mm: np.ndarray,
-) -> LoadTable | None:
-    """``load_table`` of many beams side by side (``analysis.floor``) for plain loads.
-
-    ``cases[k]`` are the cases of beam k, which has ``n_seg[k]`` segments, the first one
-    numbered ``seg_off[k]`` among all segments (of ``length_mm``); the table numbers the
-    segments over all beams and the cases within each beam (``n_cols`` columns). Every load
-    must be a ``UniformLoad`` or ``PointLoad`` of plain ints and floats, valid as
-    ``load_table`` checks it; otherwise the result is None (then ``load_table`` beam by beam
-    words the first bad load, or takes the unusual number types). The same positions are
-    snapped to the nodes as ``load_table`` snaps them.
-    """
-    chain = itertools.chain.from_iterable
-    try:
-        case_lists = list(chain(cases))  # every case of every strip
-        per_case = list(map(len, case_lists))
-        flat = list(chain(case_lists))
-    except TypeError:
-        return None
-    # The loads' own attributes, read by C-level iteration (no object per load).
-    kinds = list(map(type, flat))
-    if not set(kinds) <= {UniformLoad, PointLoad}:
-        return None
-    is_p = list(map(operator.is_, kinds, itertools.repeat(PointLoad)))
-    lines = list(itertools.compress(flat, map(operator.not_, is_p)))
-    points = list(itertools.compress(flat, is_p))
-    seg_l = list(map(attrgetter("segment"), flat))
-    q_w, lo_w, hi_w = (list(map(attrgetter(n), lines)) for n in _LINE_FIELDS)
-    q_p, a_p = (list(map(attrgetter(n), points)) for n in _POINT_FIELDS)
-    if not (
-        set(map(type, seg_l)) <= {int}
-        and set(map(type, q_w)) | set(map(type, q_p)) | set(map(type, a_p)) <= _NUMBER
-        and all(
-            v.count(None) == len(v) or set(map(type, v)) <= _NUMBER_OR_NONE for v in (lo_w, hi_w)
-        )
-    ):
-        return None
-    n_loads = len(flat)
-    pt = np.fromiter(is_p, bool, n_loads)
-    w = ~pt
-    try:
-        seg = np.fromiter(seg_l, np.intp, n_loads)
-        q, lo, hi = np.empty(n_loads), np.empty(n_loads), np.empty(n_loads)
-        q[w], q[pt] = _floats(q_w), _floats(q_p)
-        lo[w], hi[w] = _floats(lo_w), _floats(hi_w)  # None -> nan
-        lo[pt] = hi[pt] = _floats(a_p)
-    except OverflowError:
-        return None
-    lo_nan, hi_nan = np.isnan(lo), np.isnan(hi)
-    if (lo_nan & pt).any() or int(lo_nan.sum() + hi_nan.sum()) != lo_w.count(None) + hi_w.count(
-        None
-    ):
-        return None  # a position that is nan (not None), or None on a point load
-    n_strip_cases = np.array(n_cases, dtype=np.intp)
-    case_strip = np.repeat(np.arange(n_strip_cases.size), n_strip_cases)
-    g_case = np.repeat(np.arange(case_strip.size), np.array(per_case, dtype=np.intp))
-    strip = case_strip[g_case]
-    case = g_case - (np.cumsum(n_strip_cases) - n_strip_cases)[strip]
-    if ((seg < 0) | (seg >= n_seg[strip])).any():
-        return None
-    g_seg = seg + seg_off[strip]
-    length = length_mm[g_seg]
-    tol = POSITION_TOL_MM
-    lo = np.where(lo_nan, 0.0, lo)
-    hi = np.where(hi_nan, length, hi)
-    with np.errstate(invalid="ignore"):
-        ok_pt = np.isfinite(lo) & (lo >= -tol) & (lo <= length + tol)
-        ok_w = (
-            np.isfinite(lo)
-            & np.isfinite(hi)
-            & (lo >= -tol)
-            & (hi <= length + tol)
-            & (hi - lo > tol)
-        )
-    if not (np.isfinite(q).all() and np.where(pt, ok_pt, ok_w).all()):
-        return None
-    # Snap to the nodes within the tolerance, as ``load_table`` does.
-    lo = np.where(lo <= tol, 0.0, np.where(pt & (lo >= length - tol), length, lo))
-    hi = np.where(pt, lo, np.where(hi >= length - tol, length, hi))
-    return LoadTable(
-        n_cases=n_cols,
-        case=case,
-        segment=g_seg,
-        is_point=pt,
-        intensity=q,
-        start_m=lo / 1000.0,
-        end_m=hi / 1000.0,
-    )
-
-
-def _floats(values: list) -> np.ndarray:
-    """float array of numbers and None (nan); all None is the common case."""
-    if values.count(None) == len(values):
-        return np.full(len(values), np.nan)
-    return np.array(values, dtype=float)
-
-
 def build_stations(model: BeamModel, table: LoadTable) -> Stations:
     """Stations: a uniform grid at most L * model.station_spacing_fraction apart in every
     segment, plus support faces, load points and the ends of partial line loads."""
@@ -291,8 +76,14 @@ def build_stations(model: BeamModel, table: LoadTable) -> Stations:
     nodes = np.asarray(model.node_x_mm, dtype=float)
     half = np.asarray(model.support_width_mm, dtype=float) / 2.0
     n_div = np.full(model.n_segments, max(1, math.ceil(1.0 / frac - 1e-9)))
-    seg, local, side, start = station_arrays(np.diff(nodes), n_div, half[:-1], half[1:], table)
+    seg, local, side, start, _ = station_arrays(np.diff(nodes), n_div, half[:-1], half[1:], table)
     return Stations(x_mm=nodes[seg] + local, segment=seg, local_mm=local, side=side, start=start)
+
+
+# The arithmetic placement (``_on_the_grid``) needs grid points well apart (more than four
+# position tolerances) and lengths whose round-off stays far below the tolerance.
+_ARITHMETIC_MIN_SPACING = 4.0 * POSITION_TOL_MM
+_ARITHMETIC_MAX_LENGTH_MM = 1.0e9
 
 
 def station_arrays(
@@ -301,32 +92,88 @@ def station_arrays(
     half_l: np.ndarray,
     half_r: np.ndarray,
     table: LoadTable,
-) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
-    """(segment, local_mm, side, start) of the stations of segments side by side (those of
-    one beam, or of many beams stacked: ``analysis.floor``).
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """(segment, local_mm, side, start, grid) of the stations of segments side by side
+    (those of one beam, or of many beams stacked: ``analysis.floor``).
 
     Segment j has length ``lengths_mm[j]``, ``n_div[j]`` grid divisions and supports of half
     width ``half_l[j]`` / ``half_r[j]`` at its left / right node; ``table.segment`` indexes
-    these segments. ``start`` has one entry per segment plus one.
+    these segments. ``start`` has one entry per segment plus one. ``grid`` is the index i of
+    a station that is grid point i of its segment, at exactly L i / n, and -1 for any other
+    station.
+
+    Stations are the grid points and the other positions (support faces inside a segment,
+    load points, the ends of partial line loads), each position once: positions are
+    integers of the tolerance, and a position that is a grid point's is that grid point
+    (taking a point load's own position). Positions within the tolerance of a node are
+    snapped to it. A point load inside a segment doubles its station: the limits of the
+    shear from the left and from the right.
     """
-    n_seg = lengths_mm.size
+    positions = _unique_positions(lengths_mm, half_l, half_r, table)
+    if arithmetic_placement_holds(lengths_mm, n_div):
+        return _on_the_grid(lengths_mm, n_div, positions)
+    return _by_keys(lengths_mm, n_div, positions)
+
+
+def arithmetic_placement_holds(lengths_mm: np.ndarray, n_div: np.ndarray) -> bool:
+    """Whether ``station_arrays`` places stations by arithmetic on the grid (fast; grid
+    points well apart) rather than by merging keys (any grid). Both place them alike."""
+    return bool(
+        lengths_mm.size
+        and (lengths_mm / n_div).min() > _ARITHMETIC_MIN_SPACING
+        and lengths_mm.max() <= _ARITHMETIC_MAX_LENGTH_MM
+    )
+
+
+@dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
+class _Positions:
+    """The positions other than the grid, each once, in key order (internal): segment,
+    position (mm), point load or not, key within the segment and key over all segments
+    (``key_off[segment]`` + key), keys being integers of the tolerance."""
+
+    seg: np.ndarray
+    pos: np.ndarray
+    point: np.ndarray
+    rel: np.ndarray
+    key: np.ndarray
+    key_off: np.ndarray
+
+
+def _unique_positions(
+    lengths_mm: np.ndarray, half_l: np.ndarray, half_r: np.ndarray, table: LoadTable
+) -> _Positions:
+    """``_other_positions``, each position once: the first of its group, point loads first,
+    then in the order of ``_other_positions``."""
+    e_seg, e_pos, e_pt = _other_positions(lengths_mm, half_l, half_r, table)
+    e_rel = np.round(e_pos / POSITION_TOL_MM).astype(np.int64)
+    # Keys over all segments: those of segment j are offset by the keys of the segments
+    # before it, so that one integer orders (segment, position).
+    key_l = np.round(lengths_mm / POSITION_TOL_MM)
+    key_off = np.zeros(lengths_mm.size + 1, dtype=np.int64)
+    np.cumsum(key_l.astype(np.int64) + 2, out=key_off[1:])
+    e_key = key_off[e_seg] + e_rel
+    order = np.argsort(e_key * 2 + ~e_pt, kind="stable")
+    e_key = e_key[order]
+    first = np.ones(e_key.size, dtype=bool)
+    first[1:] = e_key[1:] != e_key[:-1]
+    keep = order[first]
+    return _Positions(e_seg[keep], e_pos[keep], e_pt[keep], e_rel[keep], e_key[first], key_off)
+
+
+def _other_positions(
+    lengths_mm: np.ndarray, half_l: np.ndarray, half_r: np.ndarray, table: LoadTable
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(segment, position, is a point load) of the positions other than the grid, in this
+    order: support faces that fall inside a segment, load points, and the ends of line loads
+    not at the ends of their segment (those coincide with grid points and change nothing)."""
     tol = POSITION_TOL_MM
-    # The other positions, in this order: support faces that fall inside a segment, load
-    # points, and the ends of line loads not at the ends of their segment (those coincide
-    # with grid points and change nothing).
     left_face = (half_r > tol) & (half_r < lengths_mm - tol)
     right_face = (half_l > tol) & (half_l < lengths_mm - tol)
-    seg_idx = np.arange(n_seg)
+    seg_idx = np.arange(lengths_mm.size)
     lo_mm, hi_mm = table.start_m * 1000.0, table.end_m * 1000.0
-    # Positions are integers of the tolerance; those of segment j are offset by the keys
-    # of the segments before it, so that one integer orders (segment, position).
-    key_l = np.round(lengths_mm / tol)
-    key_off = np.zeros(n_seg + 1, dtype=np.int64)
-    np.cumsum(key_l.astype(np.int64) + 2, out=key_off[1:])
-    end_key = key_off[table.segment] + key_l[table.segment].astype(np.int64)
-    hi_key = key_off[table.segment] + np.round(hi_mm / tol).astype(np.int64)
+    end_rel = np.round(lengths_mm / tol).astype(np.int64)[table.segment]
     lo_in = table.is_point | (lo_mm != 0.0)
-    hi_in = ~table.is_point & (hi_key != end_key)
+    hi_in = ~table.is_point & (np.round(hi_mm / tol).astype(np.int64) != end_rel)
     e_seg = np.concatenate(
         [seg_idx[left_face], seg_idx[right_face], table.segment[lo_in], table.segment[hi_in]]
     )
@@ -336,22 +183,137 @@ def station_arrays(
     e_pt = np.zeros(e_seg.size, dtype=bool)
     n_faces = int(left_face.sum() + right_face.sum())
     e_pt[n_faces : n_faces + int(lo_in.sum())] = table.is_point[lo_in]
-    e_key = key_off[e_seg] + np.round(e_pos / tol).astype(np.int64)
-    g_seg, g_pos, g_key = _grid(lengths_mm, n_div, key_off)
-    # Groups of equal (segment, key) are one station; its position is that of the group's
-    # first entry, point loads first, then in the order above (the grid first of all).
-    if n_seg and (lengths_mm / n_div).min() > 2.0 * tol:
-        useg, upos, ukey = g_seg, g_pos, g_key  # grid points a key apart at least
-    else:
-        keep = np.ones(g_key.size, dtype=bool)
-        keep[1:] = g_key[1:] != g_key[:-1]
-        useg, upos, ukey = g_seg[keep], g_pos[keep], g_key[keep]
+    return e_seg.astype(np.intp, copy=False), e_pos, e_pt
+
+
+def _grid_points(lengths_mm: np.ndarray, n_div: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """(position L i / n, i) of the grid points, segment by segment, flat."""
+    n_seg = lengths_mm.size
+    n = int(n_div[0]) if n_seg else 1
+    if n_seg and (n_div == n).all():  # one spacing for every segment: one product
+        step = np.arange(n + 1)
+        g_pos = lengths_mm[:, None] * (step / n)[None, :]
+        return g_pos.ravel(), np.tile(step, n_seg)
+    counts = n_div + 1
+    step = np.arange(int(counts.sum())) - np.repeat(np.cumsum(counts) - counts, counts)
+    return np.repeat(lengths_mm, counts) * (step / np.repeat(n_div, counts)), step
+
+
+def _grid_keys(lengths_mm: np.ndarray, i: np.ndarray, n: np.ndarray) -> np.ndarray:
+    """Position keys (integers of the tolerance) of grid points i of n on lengths, as
+    ``_grid_points`` places them."""
+    key = lengths_mm * (i / n) / POSITION_TOL_MM
+    np.round(key, out=key)
+    return key.astype(np.int64)
+
+
+def _snapped(
+    pos: np.ndarray, length: np.ndarray, point: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(position, side, doubled) of stations at ``pos`` on segments of ``length``: snapped
+    to a node within the tolerance (side +1 at the left node, -1 at the right one), and
+    whether a point load (``point``) doubles it (inside the segment)."""
+    tol = POSITION_TOL_MM
+    at_start = pos <= tol
+    at_end = pos >= length - tol
+    pos = np.where(at_start, 0.0, np.where(at_end, length, pos))
+    side = np.where(at_end, -1, at_start).astype(np.int8)
+    return pos, side, point & ~at_start & ~at_end
+
+
+def _on_the_grid(
+    lengths_mm: np.ndarray, n_div: np.ndarray, positions: _Positions
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """``station_arrays`` by arithmetic on the grid: the grid points' stations are never
+    searched or sorted, only the few other positions are placed among them.
+
+    Valid where grid points are more than ``_ARITHMETIC_MIN_SPACING`` apart: then grid
+    points other than a segment's first and last lie farther than the tolerance from its
+    nodes, and a position's grid neighbours are among the four nearest its estimate."""
+    e_seg, e_pos, e_pt, e_rel = positions.seg, positions.pos, positions.point, positions.rel
+    n_seg = lengths_mm.size
+    counts = n_div + 1
+    g_start = np.zeros(n_seg + 1, dtype=np.intp)
+    np.cumsum(counts, out=g_start[1:])
+    g_pos, g_i = _grid_points(lengths_mm, n_div)
+    # Each other position among the grid keys of its segment: grid points before it, and
+    # the one it falls on, if any (keys rise along the grid).
+    length, n = lengths_mm[e_seg], n_div[e_seg]
+    estimate = np.clip(np.floor(e_pos / length * n), 0, n).astype(np.intp)
+    near = estimate + np.arange(-1, 3)[:, None]  # (4, n_positions)
+    valid = (near >= 0) & (near <= n)
+    near_key = _grid_keys(length, near, n)
+    before = np.maximum(estimate - 1, 0) + (valid & (near_key < e_rel)).sum(axis=0)
+    on_grid = (valid & (near_key == e_rel)).any(axis=0)
+    # A point load on a grid point takes its place with its own position; any other
+    # position on a grid point is that grid point; the rest are new stations.
+    hit = on_grid & e_pt
+    new = ~on_grid
+    hit_g = g_start[e_seg[hit]] + before[hit]  # grid point taken by the load
+    new_at = g_start[e_seg[new]] + before[new]  # grid point a new station precedes (sorted)
+    hit_pos, hit_side, hit_double = _snapped(e_pos[hit], length[hit], e_pt[hit])
+    new_pos, new_side, new_double = _snapped(e_pos[new], length[new], e_pt[new])
+    # Index of every station before doubling: the grid points with the new stations among
+    # them; then after doubling, each doubled station followed by its twin.
+    n_new = new_at.size
+    pre_new = new_at + np.arange(n_new)
+    pre_hit = hit_g + np.searchsorted(new_at, hit_g, side="right")
+    doubled = np.sort(np.concatenate((pre_hit[hit_double], pre_new[new_double])))
+
+    def final(pre: np.ndarray) -> np.ndarray:
+        return pre + np.searchsorted(doubled, pre, side="left")
+
+    twin = doubled + np.arange(1, doubled.size + 1)
+    at_new, at_hit = final(pre_new), final(pre_hit)
+    ends_g = np.stack((g_start[:-1], g_start[1:] - 1), axis=1).ravel()  # first, last: sorted
+    at_ends = final(ends_g + np.searchsorted(new_at, ends_g, side="right"))
+    # Stations per segment, then the arrays: grid points where no other station is.
+    seg_new = e_seg[new]
+    seg_twin = np.concatenate((e_seg[hit][hit_double], seg_new[new_double]))
+    per_seg = counts + np.bincount(seg_new, minlength=n_seg)
+    per_seg += np.bincount(seg_twin, minlength=n_seg)
+    start = np.zeros(n_seg + 1, dtype=np.intp)
+    np.cumsum(per_seg, out=start[1:])
+    total = int(start[-1])
+    is_grid = np.ones(total, dtype=bool)
+    is_grid[at_new] = False
+    is_grid[twin] = False
+    on_grid_at = np.flatnonzero(is_grid)
+    pos = np.empty(total)
+    pos[on_grid_at] = g_pos
+    pos[at_new] = new_pos
+    pos[at_hit] = hit_pos
+    pos[twin] = pos[twin - 1]
+    side = np.zeros(total, dtype=np.int8)
+    side[at_ends] = np.tile(np.array([1, -1], dtype=np.int8), n_seg)
+    side[at_new] = new_side
+    side[at_hit] = hit_side
+    side[twin - 1] = -1
+    side[twin] = 1
+    grid = np.full(total, -1, dtype=np.intp)
+    grid[on_grid_at] = g_i
+    grid[at_hit] = -1
+    seg = np.repeat(np.arange(n_seg), per_seg)
+    return seg, pos, side, start, grid
+
+
+def _by_keys(
+    lengths_mm: np.ndarray, n_div: np.ndarray, positions: _Positions
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """``station_arrays`` by keys: every grid point and other position as one integer key,
+    searched and merged; for any grid (grid points closer than the tolerance are one
+    station). Every station is reported off the grid (-1)."""
+    e_seg, e_pos, e_pt, e_key = positions.seg, positions.pos, positions.point, positions.key
+    key_off = positions.key_off
+    n_seg = lengths_mm.size
+    tol = POSITION_TOL_MM
+    g_pos, g_i = _grid_points(lengths_mm, n_div)
+    g_seg = np.repeat(np.arange(n_seg), n_div + 1)
+    g_key = _grid_keys(lengths_mm[g_seg], g_i, n_div[g_seg]) + key_off[g_seg]
+    keep = np.ones(g_key.size, dtype=bool)
+    keep[1:] = g_key[1:] != g_key[:-1]
+    useg, upos, ukey = g_seg[keep], g_pos[keep], g_key[keep]
     upt = np.zeros(useg.size, dtype=bool)
-    order = np.argsort(e_key * 2 + ~e_pt, kind="stable")
-    e_key, e_seg, e_pos, e_pt = e_key[order], e_seg[order], e_pos[order], e_pt[order]
-    e_first = np.ones(e_key.size, dtype=bool)
-    e_first[1:] = e_key[1:] != e_key[:-1]
-    e_key, e_seg, e_pos, e_pt = e_key[e_first], e_seg[e_first], e_pos[e_first], e_pt[e_first]
     at = np.searchsorted(ukey, e_key)
     on_grid = ukey[np.minimum(at, ukey.size - 1)] == e_key
     hit = at[on_grid & e_pt]  # a point load on a grid point: its position, and doubled
@@ -365,14 +327,13 @@ def station_arrays(
     upos[at_end] = ulen[at_end]
     upos[at_start] = 0.0
     side_u = np.where(at_end, -1, at_start).astype(np.int8)
-    # A point load inside a segment doubles its station: the limits from left and right.
     double = np.flatnonzero(upt & ~at_start & ~at_end)
     side_u[double] = -1
     st_seg, st_pos, side = _insert(
         double + 1, (useg, upos, side_u), (useg[double], upos[double], np.int8(1))
     )
     start = np.searchsorted(st_seg, np.arange(n_seg + 1)).astype(np.intp)
-    return st_seg.astype(np.intp), st_pos, side, start
+    return st_seg.astype(np.intp), st_pos, side, start, np.full(st_seg.size, -1, dtype=np.intp)
 
 
 def _insert(
@@ -393,27 +354,6 @@ def _insert(
         r[new] = v
         out.append(r)
     return tuple(out)
-
-
-def _grid(
-    lengths_mm: np.ndarray, n_div: np.ndarray, key_off: np.ndarray
-) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """(segment, position, key) of the grid points L i / n, segment by segment."""
-    n_seg = lengths_mm.size
-    n = int(n_div[0]) if n_seg else 1
-    if n_seg and (n_div == n).all():  # one spacing for every segment: one product
-        g_pos = lengths_mm[:, None] * (np.arange(n + 1) / n)[None, :]
-        g_seg = np.repeat(np.arange(n_seg), n + 1)
-    else:
-        counts = n_div + 1
-        g_seg = np.repeat(np.arange(n_seg), counts)
-        step = np.arange(g_seg.size) - np.repeat(np.cumsum(counts) - counts, counts)
-        g_pos = np.repeat(lengths_mm, counts) * (step / np.repeat(n_div, counts))
-    key = g_pos / POSITION_TOL_MM
-    np.round(key, out=key)
-    g_key = key.astype(np.int64)
-    g_key += key_off[:-1, None] if g_key.ndim == 2 else key_off[g_seg]
-    return g_seg, g_pos.ravel(), g_key.ravel()
 
 
 @dataclass(frozen=True, slots=True, eq=False)  # holds arrays: identity equality
@@ -515,10 +455,11 @@ def _general_free_terms(
     # Point load: is the load left of the section? Ties (station at the load) use the side.
     tie = np.abs(x - c) * 1000.0 <= POSITION_TOL_MM
     left_of = (x > c) & ~tie | tie & (side == 1)
-    m0 = np.where(pt, r_a * x - q * xc, r_a * x - 0.5 * q * (xc**2 - xd**2))
+    m0 = np.where(pt, r_a * x - q * xc, r_a * x - 0.5 * q * (xc * xc - xd * xd))
     m0[x >= length] = 0.0  # zero at the right node by statics; drop the round-off
     v0 = np.where(pt, r_a - q * left_of, r_a - q * (np.clip(x, c, d) - c))
-    j0 = np.where(
-        pt, r_a * x**3 / 6.0 - q * xc**3 / 6.0, r_a * x**3 / 6.0 - q * (xc**4 - xd**4) / 24.0
-    )
+    # Powers as products (pow is several times slower).
+    xc2, xd2 = xc * xc, xd * xd
+    rx3 = r_a * (x * x * x) / 6.0
+    j0 = np.where(pt, rx3 - q * (xc2 * xc) / 6.0, rx3 - q * (xc2 * xc2 - xd2 * xd2) / 24.0)
     return m0, v0, j0

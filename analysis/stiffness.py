@@ -20,14 +20,13 @@ import numpy as np
 
 from analysis.banded import NotPositiveDefiniteError, cholesky_banded
 from analysis.beam import BeamModel, Load, Restraint
+from analysis.load_table import LoadTable, load_table
 from analysis.stations import (
     FreeTerms,
-    LoadTable,
     Stations,
     build_stations,
     free_terms,
     full_line_loads,
-    load_table,
 )
 
 __all__ = ["CaseResults", "NodeSolution", "solve", "solve_nodes"]
@@ -189,9 +188,10 @@ class NodeSolution:
 
 
 def element_matrices(length_m: np.ndarray, ei: float | np.ndarray) -> np.ndarray:
-    """(n_el, 4, 4) Euler-Bernoulli beam element stiffness, DOFs (v1, th1, v2, th2); ``ei``
-    one number or one per element."""
-    length = length_m[:, None, None]
+    """(4, 4, n_el) Euler-Bernoulli beam element stiffness, DOFs (v1, th1, v2, th2), the
+    elements last (every operation on them runs along the elements); ``ei`` one number or
+    one per element."""
+    length = length_m[None, None, :]
     base = np.array(
         [
             [12.0, 6.0, -12.0, 6.0],
@@ -199,17 +199,17 @@ def element_matrices(length_m: np.ndarray, ei: float | np.ndarray) -> np.ndarray
             [-12.0, -6.0, 12.0, -6.0],
             [6.0, 2.0, -6.0, 4.0],
         ]
-    )
+    )[:, :, None]
     # Powers of L for each entry: v-v 0, v-th 1, th-th 2 (products: pow is slow).
-    power = np.array([[0, 1, 0, 1], [1, 2, 1, 2], [0, 1, 0, 1], [1, 2, 1, 2]])[None]
+    power = np.array([[0, 1, 0, 1], [1, 2, 1, 2], [0, 1, 0, 1], [1, 2, 1, 2]])[:, :, None]
     l2 = length * length
     l_power = np.where(power == 0, 1.0, np.where(power == 1, length, l2))
-    ei = np.reshape(np.asarray(ei, dtype=float), (-1, 1, 1))
-    return ei * base[None] * l_power / (l2 * length)
+    ei = np.reshape(np.asarray(ei, dtype=float), (1, 1, -1))
+    return ei * base * l_power / (l2 * length)
 
 
 def _fixed_end_actions(table: LoadTable, length_by_seg: np.ndarray) -> np.ndarray:
-    """(n_loads, 4) actions of the nodes on a fully fixed element, in DOF directions.
+    """(4, n_loads) actions of the nodes on a fully fixed element, in DOF directions.
 
     Integrals of the point-load fixed-end forces over the loaded length (standard
     fixed-end moment tables: w L^2 / 12 and P a b^2 / L^2 for the usual cases).
@@ -221,10 +221,10 @@ def _fixed_end_actions(table: LoadTable, length_by_seg: np.ndarray) -> np.ndarra
     m = r * length / 6.0
     # Node on element, DOF directions (v down, theta = dv/dx): the upward reactions are
     # negative; the left hogging moment acts against +theta, the right one along it.
-    out = np.stack([-r, -m, -r, m], axis=1)
+    out = np.stack([-r, -m, -r, m])
     other = np.flatnonzero(~full_line_loads(table, length_by_seg))
     if other.size:
-        out[other] = _general_fixed_end_actions(
+        out[:, other] = _general_fixed_end_actions(
             table.intensity[other],
             table.start_m[other],
             table.end_m[other],
@@ -240,32 +240,36 @@ def _general_fixed_end_actions(
     """``_fixed_end_actions`` of point loads (at c) and partial line loads (c..d)."""
     a = c
     b = length - a
+    # Powers as products (pow is several times slower).
+    l2 = length * length
+    l3 = l2 * length
     # Point load P at a: reactions up P b^2 (L + 2a) / L^3 and P a^2 (3L - 2a) / L^3,
     # moments P a b^2 / L^2 (hogging, left) and P a^2 b / L^2 (hogging, right).
-    r1_p = q * b**2 * (length + 2.0 * a) / length**3
-    r2_p = q * a**2 * (3.0 * length - 2.0 * a) / length**3
-    m1_p = q * a * b**2 / length**2
-    m2_p = q * a**2 * b / length**2
+    r1_p = q * (b * b) * (length + 2.0 * a) / l3
+    r2_p = q * (a * a) * (3.0 * length - 2.0 * a) / l3
+    m1_p = q * a * (b * b) / l2
+    m2_p = q * (a * a) * b / l2
 
     def prim(s: np.ndarray) -> tuple[np.ndarray, ...]:
-        lv = length
+        s2 = s * s
+        s3, s4 = s2 * s, s2 * s2
         return (
-            lv**3 * s - lv * s**3 + 0.5 * s**4,  # int (L - s)^2 (L + 2s) ds
-            lv * s**3 - 0.5 * s**4,  # int s^2 (3L - 2s) ds
-            0.5 * lv**2 * s**2 - 2.0 * lv * s**3 / 3.0 + 0.25 * s**4,  # int s (L - s)^2 ds
-            lv * s**3 / 3.0 - 0.25 * s**4,  # int s^2 (L - s) ds
+            l3 * s - length * s3 + 0.5 * s4,  # int (L - s)^2 (L + 2s) ds
+            length * s3 - 0.5 * s4,  # int s^2 (3L - 2s) ds
+            0.5 * l2 * s2 - 2.0 * length * s3 / 3.0 + 0.25 * s4,  # int s (L - s)^2 ds
+            length * s3 / 3.0 - 0.25 * s4,  # int s^2 (L - s) ds
         )
 
     pd, pc = prim(d), prim(c)
-    r1_w = q * (pd[0] - pc[0]) / length**3
-    r2_w = q * (pd[1] - pc[1]) / length**3
-    m1_w = q * (pd[2] - pc[2]) / length**2
-    m2_w = q * (pd[3] - pc[3]) / length**2
+    r1_w = q * (pd[0] - pc[0]) / l3
+    r2_w = q * (pd[1] - pc[1]) / l3
+    m1_w = q * (pd[2] - pc[2]) / l2
+    m2_w = q * (pd[3] - pc[3]) / l2
     r1 = np.where(pt, r1_p, r1_w)
     r2 = np.where(pt, r2_p, r2_w)
     m1 = np.where(pt, m1_p, m1_w)
     m2 = np.where(pt, m2_p, m2_w)
-    return np.stack([-r1, -m1, -r2, m2], axis=1)
+    return np.stack([-r1, -m1, -r2, m2])
 
 
 # Codes by member identity (enum members are singletons; hashing an enum member is slow).
@@ -312,10 +316,6 @@ class Frame:
         free[:, 1] = self.restraint != 2
         return free.ravel()
 
-    def dofs(self) -> np.ndarray:
-        """(n_el, 4) DOFs of every element: (v1, th1, v2, th2)."""
-        return 2 * self.left[:, None] + np.arange(4)[None, :]
-
 
 # The lower triangle of an element matrix, local (row, column): the DOFs of an element
 # rise with the local index, so row >= column is the lower band of the reduced matrix too.
@@ -326,66 +326,85 @@ def band_entries(
     ke: np.ndarray, frame: Frame, free: np.ndarray
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Entries of the reduced stiffness in lower band storage: (row - column, column,
-    value), element by element (summed by the caller); columns number the free DOFs in
-    order."""
-    dofs = frame.dofs()
+    value), entry by entry of the element matrices (``element_matrices``; summed by the
+    caller: a band cell gets at most two, whose sum is the same in either order); columns
+    number the free DOFs in order."""
+    dofs = 2 * frame.left[None, :] + np.arange(4)[:, None]  # (4, n_el)
     red = (np.cumsum(free) - 1)[dofs]
     is_free = free[dofs]
-    keep = is_free[:, _LOW_R] & is_free[:, _LOW_C]
-    col = red[:, _LOW_C]
-    return (red[:, _LOW_R] - col)[keep], col[keep], ke[:, _LOW_R, _LOW_C][keep]
+    keep = is_free[_LOW_R] & is_free[_LOW_C]
+    col = red[_LOW_C]
+    return (red[_LOW_R] - col)[keep], col[keep], ke[_LOW_R, _LOW_C][keep]
 
 
 def load_vectors(frame: Frame, table: LoadTable) -> tuple[np.ndarray, np.ndarray]:
-    """Fixed-end actions per element (n_el, 4, n_cases) and the equivalent nodal loads
-    (2 n_nodes, n_cases), which are minus the fixed-end actions; ``table.segment`` indexes
-    the elements."""
+    """Fixed-end actions (4, n_cases, n_el) per element action, case and element, and the
+    equivalent nodal loads (n_cases, 2 n_nodes), which are minus the fixed-end actions;
+    ``table.segment`` indexes the elements."""
     n_el, n_cases = frame.left.size, table.n_cases
-    fea = _fixed_end_actions(table, frame.length_m)  # (n_loads, 4)
-    # Summed per (element, action, case) in table order.
-    flat = (table.segment[:, None] * 4 + np.arange(4)) * n_cases + table.case[:, None]
-    fe_el = np.bincount(flat.ravel(), fea.ravel(), n_el * 4 * n_cases).astype(float, copy=False)
-    fe_el = fe_el.reshape(n_el, 4, n_cases)
-    f_full = np.zeros((frame.n_nodes, 2, n_cases))
-    f_full[frame.left] -= fe_el[:, :2]
-    f_full[frame.left + 1] -= fe_el[:, 2:]
-    return fe_el, f_full.reshape(2 * frame.n_nodes, n_cases)
+    fea = _fixed_end_actions(table, frame.length_m)  # (4, n_loads)
+    # Summed per (action, case, element) in table order.
+    flat = (np.arange(4)[:, None] * n_cases + table.case) * n_el + table.segment
+    fe_el = np.bincount(flat.ravel(), fea.ravel(), 4 * n_cases * n_el).astype(float, copy=False)
+    fe_el = fe_el.reshape(4, n_cases, n_el)
+    # A node's DOF gets minus the actions of at most two elements: its element to the right
+    # (left-end actions) and its element to the left (right-end actions), in that order.
+    at = _at_columns(n_cases, 2 * frame.n_nodes, 2 * frame.left)
+    shape = (n_cases, 2 * frame.n_nodes)
+    f_t = _scattered(shape, (at, -fe_el[0]), (at + 1, -fe_el[1]))
+    f_t -= _scattered(shape, (at + 2, fe_el[2]), (at + 3, fe_el[3]))
+    return fe_el, f_t
+
+
+def _at_columns(n_rows: int, n_cols: int, cols: np.ndarray) -> np.ndarray:
+    """Flat indices of columns ``cols`` of every row of an (n_rows, n_cols) array."""
+    return (np.arange(n_rows)[:, None] * n_cols + cols).ravel()
+
+
+def _scattered(shape: tuple[int, int], *parts: tuple[np.ndarray, np.ndarray]) -> np.ndarray:
+    """Zeros of ``shape`` with the values of each part put at its flat indices (distinct
+    over the parts): scattering by flat index is several times faster than by columns."""
+    out = np.zeros(shape)
+    flat = out.reshape(-1)
+    for at, values in parts:
+        flat[at] = values.reshape(-1)
+    return out
 
 
 def node_results(
-    frame: Frame, ke: np.ndarray, d_full: np.ndarray, fe_el: np.ndarray
+    frame: Frame, ke: np.ndarray, d_t: np.ndarray, fe_el: np.ndarray
 ) -> tuple[np.ndarray, np.ndarray]:
-    """Node moments and reactions, each (n_nodes, n_cases), from the DOF values
-    (2 n_nodes, n_cases) and the fixed-end actions."""
+    """Node moments and reactions, each (n_cases, n_nodes), from the DOF values
+    (n_cases, 2 n_nodes), the element matrices and the fixed-end actions (elements last,
+    as ``element_matrices`` and ``load_vectors`` give them)."""
     # Element end actions f = k d + fixed-end actions, term by term in a fixed order (the
-    # same for any number of cases: one beam or a floor agree bit for bit), with the
-    # elements last so that every operation runs along them.
-    d_t = np.ascontiguousarray(d_full.T)  # (n_cases, 2 n_nodes)
+    # same for any number of cases: one beam or a floor agree bit for bit), along the
+    # elements.
     dof = 2 * frame.left
-    d_el = [d_t[:, dof + c] for c in range(4)]  # (n_cases, n_el): v1, th1, v2, th2
-    k_t = np.ascontiguousarray(ke.transpose(1, 2, 0))  # (4, 4, n_el)
-    fe_t = fe_el.transpose(1, 2, 0)  # (4, n_cases, n_el)
+    d_el = [np.take(d_t, dof + c, axis=1) for c in range(4)]  # (n_cases, n_el): v1 .. th2
     term = np.empty_like(d_el[0])
-    f_el = []  # (n_el, n_cases) for each DOF of the element
+    f_el = []  # (n_cases, n_el) for each DOF of the element
     for r in range(4):
-        f = fe_t[r].copy()
+        f = fe_el[r].copy()
         for c in range(4):
-            f += np.multiply(k_t[r, c], d_el[c], out=term)
-        f_el.append(f.T)
-    left, right = frame.left, frame.left + 1
+            f += np.multiply(ke[r, c], d_el[c], out=term)
+        f_el.append(f)
+    # Element by element, the left end's actions go to its left node and the right end's
+    # to its right node: scattered by flat index (columns are nodes, rows cases).
+    n_cases, n_nodes = d_t.shape[0], frame.n_nodes
+    at_left = _at_columns(n_cases, n_nodes, frame.left)
+    at_right = at_left + 1
     # M(0) is the action along +theta at the left node, M(L) minus that at the right node;
-    # a node between two elements takes the mean of the two.
-    node_m = np.zeros((frame.n_nodes, fe_el.shape[2]))
-    node_m[left] = f_el[1]
-    node_m[right] -= f_el[3]
-    node_m[~frame.end] *= 0.5
-    node_m[frame.end & (frame.restraint != 2)] = 0.0  # pinned or free end: zero by statics
+    # a node between two elements takes the mean of the two; a pinned or free end is zero
+    # by statics.
+    shape = (n_cases, n_nodes)
+    node_m = _scattered(shape, (at_left, f_el[1])) - _scattered(shape, (at_right, f_el[3]))
+    node_m *= np.where(frame.end, 1.0, 0.5)
+    node_m[:, frame.end & (frame.restraint != 2)] = 0.0
     # Reactions: the nodes push the elements with f; the supports push the nodes.
-    down = np.zeros_like(node_m)
-    down[left] += f_el[0]
-    down[right] += f_el[2]
+    down = _scattered(shape, (at_left, f_el[0])) + _scattered(shape, (at_right, f_el[2]))
     reactions = -down
-    reactions[frame.restraint == 0] = 0.0
+    reactions[:, frame.restraint == 0] = 0.0
     return node_m, reactions
 
 
@@ -417,25 +436,25 @@ def _solve_table(model: BeamModel, table: LoadTable, stations: Stations) -> Node
     n_free = int(free.sum())
     ab = np.zeros((int(band_k.max()) + 1 if band_k.size else 1, n_free))
     np.add.at(ab, (band_k, band_c), band_v)
-    fe_el, f_full = load_vectors(frame, table)
-    d_full = np.zeros_like(f_full)
+    fe_el, f_t = load_vectors(frame, table)
+    d_t = np.zeros_like(f_t)  # (n_cases, 2 n_nodes)
     if n_free:
         try:
             factor = cholesky_banded(ab)
         except NotPositiveDefiniteError:
             raise ValueError("the beam model is a mechanism (not enough supports)") from None
-        d_full[free] = factor.solve(f_full[free])
-    node_m, reactions = node_results(frame, ke, d_full, fe_el)
-    node_m = _frozen(np.ascontiguousarray(node_m.T))
+        d_t[:, free] = factor.solve(np.ascontiguousarray(f_t[:, free].T)).T
+    node_m, reactions = node_results(frame, ke, d_t, fe_el)
+    _frozen(node_m)
     return NodeSolution(
         model=model,
         stations=stations,
         free=free_terms(model, stations, table),
         node_moment_knm=node_m,
         elastic_node_moment_knm=node_m,
-        reactions_kn=_frozen(np.ascontiguousarray(reactions.T)),
-        node_v_m=_frozen(np.ascontiguousarray(d_full[0::2].T)),
-        node_theta_rad=_frozen(np.ascontiguousarray(d_full[1::2].T)),
+        reactions_kn=_frozen(reactions),
+        node_v_m=_frozen(np.ascontiguousarray(d_t[:, 0::2])),
+        node_theta_rad=_frozen(np.ascontiguousarray(d_t[:, 1::2])),
     )
 
 
