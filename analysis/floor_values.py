@@ -42,8 +42,12 @@ def station_values(
     left, right = frame.left, frame.left + 1
     length = frame.length_m
     full = full_line_loads(table, length)
-    w = np.zeros((n_cols, length.size))
-    np.add.at(w, (table.case[full], table.segment[full]), table.intensity[full])
+    # Summed per (case, segment) in table order (bincount, as np.add.at sums but faster).
+    w = np.bincount(
+        table.case[full] * length.size + table.segment[full],
+        table.intensity[full],
+        n_cols * length.size,
+    ).reshape(n_cols, length.size)
     k_ei = -1000.0 / fl.ei_el
     m_l, m_r = fl.node_m[:, left], fl.node_m[:, right]
     # Per case (rows) and segment (columns).

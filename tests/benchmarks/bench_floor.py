@@ -362,8 +362,10 @@ def _against_anastruct(project, n_strips: int = 40) -> None:
                 t_ana_strip[i] = min(t_ana_strip[i], anastruct_strip(k))
             if r < 2:
                 t_single = min(t_single, timed(lambda: [solve(*mc) for mc in zip(models, cases)]))
+            # Each solver several times in a row, as timeit repeats a statement.
             for _ in range(3):
                 t_floor = min(t_floor, timed(lambda: solve_floor(models, cases)))
+            for _ in range(3):
                 t_nodes = min(t_nodes, timed(lambda: solve_nodes_floor(models, cases)))
         finally:
             gc.enable()
