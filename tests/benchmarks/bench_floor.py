@@ -58,8 +58,9 @@ def _tree_rss_mb(pid: int) -> float:
                 with open(f"/proc/{p}/smaps_rollup") as f:
                     total += next(int(ln.split()[1]) for ln in f if ln.startswith("Pss:"))
             except (OSError, StopIteration):
+                # A worker that has exited but not been reaped yet has no memory lines.
                 with open(f"/proc/{p}/status") as f:
-                    total += next(int(ln.split()[1]) for ln in f if ln.startswith("VmRSS:"))
+                    total += next((int(ln.split()[1]) for ln in f if ln.startswith("VmRSS:")), 0)
             for task in os.listdir(f"/proc/{p}/task"):
                 with open(f"/proc/{p}/task/{task}/children") as f:
                     todo += [int(c) for c in f.read().split()]
