@@ -105,37 +105,53 @@ def solve_nodes_floor(
     fl, order = _solve(models, cases, names)
     if fl is None:
         return ()
-    st = fl.stations
+    # Free terms of every strip's loads at its stations, stations numbered within the strip.
     f_case, f_st, f_m0, f_v0, f_j0 = free_term_arrays(
         fl.st_start, fl.st_local_mm, fl.st_side, fl.frame.length_m, fl.table
     )
-    st_off = fl.st_off.tolist()
-    free_off = np.searchsorted(f_st, fl.st_off).tolist()
-    node_off = fl.node_off.tolist()
-    out: list[NodeSolution | None] = [None] * len(order)
-    for k, (model, stations) in enumerate(zip(fl.models, st)):
-        e0, e1 = free_off[k], free_off[k + 1]
-        n0, n1 = node_off[k], node_off[k + 1]
-        nc = fl.n_cases[k]
-        free = FreeTerms(
-            case=f_case[e0:e1],
-            station=f_st[e0:e1] - st_off[k],
-            m0=f_m0[e0:e1],
-            v0=f_v0[e0:e1],
-            j0=f_j0[e0:e1],
-        )
-        node_m = fl.node_m[:nc, n0:n1]
-        out[order[k]] = NodeSolution(
-            model=model,
-            stations=stations,
-            free=free,
-            node_moment_knm=node_m,
-            elastic_node_moment_knm=node_m,
-            reactions_kn=fl.reactions[:nc, n0:n1],
-            node_v_m=fl.node_v_m[:nc, n0:n1],
-            node_theta_rad=fl.node_theta[:nc, n0:n1],
-        )
-    return tuple(out)  # type: ignore[arg-type]
+    free_off = np.searchsorted(f_st, fl.st_off)
+    f_st = f_st - np.repeat(fl.st_off[:-1], np.diff(free_off))
+    _freeze(f_case, f_st, f_m0, f_v0, f_j0)
+    at_free = _slices(free_off.tolist())
+    free_arrays = {"case": f_case, "station": f_st, "m0": f_m0, "v0": f_v0, "j0": f_j0}
+    free = _new_many(
+        FreeTerms, **{k: list(map(a.__getitem__, at_free)) for k, a in free_arrays.items()}
+    )
+    # Node results (cases, nodes) and what NodeSolution works out from them per segment
+    # (segments, cases), for every strip at once: the same arithmetic as its __post_init__.
+    left = fl.frame.left
+    m_t = fl.node_m.T
+    per_segment = [m_t[left], m_t[left + 1] - m_t[left]]
+    per_segment += [fl.node_v_m.T[left], fl.node_theta.T[left], m_t[left], m_t[left + 1]]
+    length_m = fl.frame.length_m
+    _freeze(*per_segment, length_m)
+    n_cases = fl.n_cases
+    at_nodes = list(zip(map(slice, repeat(0), n_cases), _slices(fl.node_off.tolist())))
+    node_m, reactions, node_v, theta = (
+        list(map(a.__getitem__, at_nodes))
+        for a in (fl.node_m, fl.reactions, fl.node_v_m, fl.node_theta)
+    )
+    seg_sl = _slices(fl.seg_off.tolist())
+    at_segments = list(zip(seg_sl, map(slice, repeat(0), n_cases)))
+    seg_m0, seg_dm, v_l, th_l, me_l, me_r = (
+        list(map(a.__getitem__, at_segments)) for a in per_segment
+    )
+    made = _new_many(
+        NodeSolution,
+        model=fl.models,
+        stations=fl.stations,
+        free=free,
+        node_moment_knm=node_m,
+        elastic_node_moment_knm=node_m,
+        reactions_kn=reactions,
+        node_v_m=node_v,
+        node_theta_rad=theta,
+        _seg_m0=seg_m0,
+        _seg_dm=seg_dm,
+        _seg_y=list(zip(v_l, th_l, me_l, me_r)),
+        _length_m=list(map(length_m.__getitem__, seg_sl)),
+    )
+    return tuple(map(made.__getitem__, np.argsort(order).tolist()))
 
 
 def solve_floor(
@@ -154,14 +170,26 @@ def solve_floor(
     at_nodes = list(zip(map(slice, repeat(0), n_cases), _slices(node_off)))
     node_views = [list(map(q.__getitem__, at_nodes)) for q in nodes]
     st_off = fl.st_off.tolist()
-    station_views: list[list[np.ndarray]] = [[], [], []]
+    station_views: tuple[list[np.ndarray], ...] = ([], [], [])
     for g0, g1, values in station_values(fl):  # values (3, cases, stations of the run)
         base = st_off[g0]
         local = [s - base for s in st_off[g0 : g1 + 1]]
         at_stations = list(zip(repeat(slice(None)), _slices(local)))
         for views, q in zip(station_views, values):
             views.extend(map(q.__getitem__, at_stations))
-    made = _new_many(CaseResults, fl.stations, *station_views, *node_views)
+    m, v, d = station_views
+    r, mn, dn, th = node_views
+    made = _new_many(
+        CaseResults,
+        stations=fl.stations,
+        m_knm=m,
+        v_kn=v,
+        deflection_mm=d,
+        reactions_kn=r,
+        node_moment_knm=mn,
+        node_deflection_mm=dn,
+        node_rotation_rad=th,
+    )
     return tuple(map(made.__getitem__, np.argsort(order).tolist()))
 
 
@@ -175,21 +203,23 @@ def _slices(offsets: list[int]) -> list[slice]:
     return list(map(slice, offsets[:-1], offsets[1:]))
 
 
-def _new_many(cls: type, *columns: Sequence[object]) -> list[Any]:
-    """Objects of the frozen slots dataclass ``cls``, object k with ``columns[i][k]`` as its
-    field i, for views of the floor's read-only arrays: the fields are set as ``__init__``
-    sets them but without ``__post_init__`` (which would only mark read-only views read-only
-    again), and column by column at C level (``map``), not object by object in Python:
-    hundreds of strips make thousands of these objects."""
-    fields = dataclasses.fields(cls)
-    if len(columns) != len(fields):
-        raise TypeError(f"{cls.__name__} has {len(fields)} fields, got {len(columns)} columns")
-    n = len(columns[0])
+def _new_many(cls: type, **columns: Sequence[object]) -> list[Any]:
+    """Objects of the frozen slots dataclass ``cls``, object k with ``columns[name][k]`` as
+    its field ``name`` (every field, those ``__init__`` leaves to ``__post_init__`` too),
+    for views of the floor's read-only arrays. The fields are set as ``__init__`` sets them
+    but without ``__post_init__``: the caller has worked out for every strip at once what it
+    works out (or it would only mark read-only views read-only again). Column by column at
+    C level (``map``), not object by object in Python: hundreds of strips make thousands of
+    these objects."""
+    names = [f.name for f in dataclasses.fields(cls)]
+    if sorted(columns) != sorted(names):
+        raise TypeError(f"{cls.__name__} has fields {names}, got {list(columns)}")
+    n = len(columns[names[0]])
     made = list(map(object.__new__, repeat(cls, n)))
-    for f, column in zip(fields, columns):
-        if len(column) != n:
-            raise ValueError(f"{cls.__name__}.{f.name}: {len(column)} values for {n} objects")
-        deque(map(getattr(cls, f.name).__set__, made, column), maxlen=0)
+    for name in names:
+        if len(columns[name]) != n:
+            raise ValueError(f"{cls.__name__}.{name}: {len(columns[name])} values for {n} objects")
+        deque(map(getattr(cls, name).__set__, made, columns[name]), maxlen=0)
     return made
 
 
@@ -362,8 +392,17 @@ def _strip_stations(
     at = _slices(st_off.tolist())
     # Strip k's segment starts: its n_seg + 1 entries, from seg_off[k] + k.
     start_off = (seg_off + np.arange(seg_off.size)).tolist()
-    columns = [list(map(a.__getitem__, at)) for a in (x_mm, local_seg, local_mm, side)]
-    return tuple(_new_many(Stations, *columns, list(map(starts.__getitem__, _slices(start_off)))))
+    columns = {
+        name: list(map(a.__getitem__, at))
+        for name, a in (
+            ("x_mm", x_mm),
+            ("segment", local_seg),
+            ("local_mm", local_mm),
+            ("side", side),
+        )
+    }
+    columns["start"] = list(map(starts.__getitem__, _slices(start_off)))
+    return tuple(_new_many(Stations, **columns))
 
 
 def _strip_starts(

@@ -94,6 +94,12 @@ def _same(a: np.ndarray, b: np.ndarray) -> None:
     np.testing.assert_allclose(a, b, rtol=1e-9, atol=1e-9)
 
 
+def _identical(a: np.ndarray, b: np.ndarray) -> None:
+    # Bit for bit: the floor's node solution is the single solver's (see analysis.floor).
+    assert a.shape == b.shape and a.dtype == b.dtype
+    assert np.ascontiguousarray(a).tobytes() == np.ascontiguousarray(b).tobytes()
+
+
 @settings(max_examples=40, deadline=None)
 @given(st.lists(strip_cases(), min_size=1, max_size=8))
 def test_floor_gives_every_strip_its_own_solution(
@@ -114,14 +120,24 @@ def test_floor_gives_every_strip_its_own_solution(
                 getattr(res.stations, name), getattr(alone.stations, name)
             )
         for name in ("case", "station", "m0", "v0", "j0"):
-            _same(getattr(sol.free, name), getattr(alone.free, name))
+            _identical(getattr(sol.free, name), getattr(alone.free, name))
         for name in NODE_FIELDS + ("node_theta_rad",):
-            _same(getattr(sol, name), getattr(alone, name))
+            _identical(getattr(sol, name), getattr(alone, name))
         for name in CASE_FIELDS:
             _same(getattr(res, name), getattr(alone_res, name))
+        # What NodeSolution works out per segment (the floor works it out for every strip
+        # at once), and the same again after new moments (as redistribution gives them).
+        for name in ("_seg_m0", "_seg_dm", "_length_m"):
+            _identical(getattr(sol, name), getattr(alone, name))
+        for ours, theirs in zip(sol._seg_y, alone._seg_y, strict=True):
+            _identical(ours, theirs)
+        moved = sol.with_moments(sol.node_moment_knm * 0.9, sol.reactions_kn.copy())
+        moved_alone = alone.with_moments(alone.node_moment_knm * 0.9, alone.reactions_kn.copy())
         # Station values evaluated from the floor's node solution, as the envelopes do.
         for ours, theirs in zip(sol.evaluate(), alone.evaluate()):
-            _same(ours, theirs)
+            _identical(ours, theirs)
+        for ours, theirs in zip(moved.evaluate(), moved_alone.evaluate()):
+            _identical(ours, theirs)
 
 
 def test_floor_of_textbook_beams() -> None:
@@ -321,6 +337,11 @@ def test_results_are_read_only_and_an_empty_floor_is_empty() -> None:
     sol = solve_nodes_floor([BeamModel.from_spans([5000.0])], [[[UniformLoad(0, 1.0)]]])[0]
     with pytest.raises(ValueError):
         sol.node_moment_knm[0, 0] = 1.0
+    for name in NODE_FIELDS + ("node_theta_rad", "_seg_m0", "_seg_dm", "_length_m"):
+        assert not getattr(sol, name).flags.writeable, name
+    assert not any(a.flags.writeable for a in sol._seg_y)
+    for name in ("case", "station", "m0", "v0", "j0"):
+        assert not getattr(sol.free, name).flags.writeable, name
     assert solve_floor([], []) == () and solve_nodes_floor([], []) == ()
 
 
