@@ -162,10 +162,11 @@ def solve_floor(
     fl, order = _solve(models, cases, names)
     if fl is None:
         return ()
-    # Reactions, moments, deflections (mm) and rotations of the nodes: (4, n_cols, n_nodes),
-    # so that a strip's part of each is a view (cases, its nodes) as CaseResults holds it.
-    nodes = np.stack((fl.reactions, fl.node_m, fl.node_v_m * 1000.0, fl.node_theta))
-    _freeze(nodes)
+    # Reactions, moments, deflections (mm) and rotations of the nodes, each (n_cols,
+    # n_nodes): a strip's part of each is a view (cases, its nodes) as CaseResults holds it.
+    deflection_mm = fl.node_v_m * 1000.0
+    _freeze(deflection_mm)
+    nodes = (fl.reactions, fl.node_m, deflection_mm, fl.node_theta)
     node_off, n_cases = fl.node_off.tolist(), fl.n_cases
     at_nodes = list(zip(map(slice, repeat(0), n_cases), _slices(node_off)))
     node_views = [list(map(q.__getitem__, at_nodes)) for q in nodes]
