@@ -30,13 +30,8 @@ from detailer.preview_workers import (
 )
 from detailer.progress import SILENT, Progress
 from detailer.project import load_project
-from detailer.record import (
-    ProjectRecord,
-    RevisionRecord,
-    build_record,
-    record_to_jsonable,
-    station_labels,
-)
+from detailer.record import build_record, record_to_jsonable, station_labels
+from detailer.record_types import ProjectRecord, RevisionRecord
 from detailer.revisions import (
     RevisionDiff,
     choose_revision,

@@ -32,7 +32,7 @@ from detailer.layout import ProjectDetail
 from detailer.parallel import fork_shares_memory, map_indexed, start_indexed
 from detailer.preview_workers import PreviewWorkers
 from detailer.progress import SILENT, Progress
-from detailer.record import RevisionRecord
+from detailer.record_types import RevisionRecord
 
 if TYPE_CHECKING:  # ezdxf and the writers are imported when a drawing is made
     from detailer.audit import AuditFinding, ScheduleLine

@@ -21,7 +21,7 @@ import numpy as np
 from detailer.layout import Check
 
 if TYPE_CHECKING:
-    from detailer.record import ProjectRecord
+    from detailer.record_types import ProjectRecord
 
 # Decimal places by the unit suffix of a field name; dimensionless floats get _DEFAULT_DP.
 _DP_BY_SUFFIX: Final[tuple[tuple[str, int], ...]] = (

@@ -51,7 +51,8 @@ from detailer.model import (
     StripEnd,
     Support,
 )
-from detailer.record import SCHEMA_VERSION, build_record, record_to_jsonable
+from detailer.record import build_record, record_to_jsonable
+from detailer.record_types import SCHEMA_VERSION
 from detailer.schedule import build_schedule
 from detailer.strip_analysis import analyse_strip
 from tests.bar_fixtures import make_bar_set

@@ -28,7 +28,7 @@ from dataclasses import dataclass
 
 from detailer.io import dxf_style as st
 from detailer.io.dxf_geometry import Box, Fields, Poly, Text
-from detailer.record import RevisionRecord
+from detailer.record_types import RevisionRecord
 
 #: Paper sizes of the marker, mm: letter height, smallest side, room around the letter.
 MARKER_TEXT_MM = 1.8

@@ -37,7 +37,7 @@ from detailer.io.dxf_revision import RevisionTable, revision_table, table_height
 from detailer.io.dxf_views import cross_section
 from detailer.layout import BarRole, StripDetail
 from detailer.model import Project
-from detailer.record import RevisionRecord
+from detailer.record_types import RevisionRecord
 
 
 @dataclass(frozen=True, slots=True)

@@ -63,7 +63,7 @@ from detailer.io.dxf_sheet import (
 )
 from detailer.io.dxf_text import document_text
 from detailer.layout import ProjectDetail, StripDetail
-from detailer.record import RevisionRecord
+from detailer.record_types import RevisionRecord
 
 #: Gap between two strips' regions in model space, mm.
 REGION_GAP_MM = 10000.0

@@ -28,7 +28,8 @@ from typing import Any
 from detailer.errors import InputError
 from detailer.io.atomic import write_output
 from detailer.marks import BarIdentity
-from detailer.record import SCHEMA_VERSION, ProjectRecord, record_to_jsonable
+from detailer.record import record_to_jsonable
+from detailer.record_types import SCHEMA_VERSION, ProjectRecord
 
 
 def record_file_name(project_id: str) -> str:

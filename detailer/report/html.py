@@ -13,7 +13,8 @@ __all__ = ["render_report", "report_file_name"]
 
 from detailer import CAUTION
 from detailer.layout import ProjectDetail
-from detailer.record import ProjectRecord, record_to_jsonable
+from detailer.record import record_to_jsonable
+from detailer.record_types import ProjectRecord
 from detailer.report.design_sections import (
     all_checks,
     anchorage_section,
