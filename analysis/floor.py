@@ -48,6 +48,7 @@ from analysis.stiffness import (
     load_vectors,
     node_results,
     restraint_codes,
+    segment_rows,
     solve_nodes,
 )
 
@@ -117,19 +118,14 @@ def solve_nodes_floor(
     free = _new_many(
         FreeTerms, **{k: list(map(a.__getitem__, at_free)) for k, a in free_arrays.items()}
     )
-    # Node results (cases, nodes) and what NodeSolution works out from them per segment
-    # (segments, cases), for every strip at once: the same arithmetic as its __post_init__.
-    left = fl.frame.left
-    m_t = fl.node_m.T
-    per_segment = [m_t[left], m_t[left + 1] - m_t[left]]
-    per_segment += [fl.node_v_m.T[left], fl.node_theta.T[left], m_t[left], m_t[left + 1]]
+    # What NodeSolution works out per segment (segments, cases), for every strip at once.
+    m0, dm, y_rows = segment_rows(fl.node_m, fl.node_m, fl.node_v_m, fl.node_theta, fl.frame.left)
+    per_segment = (m0, dm, *y_rows)
     length_m = fl.frame.length_m
     _freeze(*per_segment, length_m)
     n_cases = fl.n_cases
-    at_nodes = list(zip(map(slice, repeat(0), n_cases), _slices(fl.node_off.tolist())))
-    node_m, reactions, node_v, theta = (
-        list(map(a.__getitem__, at_nodes))
-        for a in (fl.node_m, fl.reactions, fl.node_v_m, fl.node_theta)
+    node_m, reactions, node_v, theta = _node_views(
+        fl, fl.node_m, fl.reactions, fl.node_v_m, fl.node_theta
     )
     seg_sl = _slices(fl.seg_off.tolist())
     at_segments = list(zip(seg_sl, map(slice, repeat(0), n_cases)))
@@ -166,10 +162,7 @@ def solve_floor(
     # n_nodes): a strip's part of each is a view (cases, its nodes) as CaseResults holds it.
     deflection_mm = fl.node_v_m * 1000.0
     _freeze(deflection_mm)
-    nodes = (fl.reactions, fl.node_m, deflection_mm, fl.node_theta)
-    node_off, n_cases = fl.node_off.tolist(), fl.n_cases
-    at_nodes = list(zip(map(slice, repeat(0), n_cases), _slices(node_off)))
-    node_views = [list(map(q.__getitem__, at_nodes)) for q in nodes]
+    r, mn, dn, th = _node_views(fl, fl.reactions, fl.node_m, deflection_mm, fl.node_theta)
     st_off = fl.st_off.tolist()
     station_views: tuple[list[np.ndarray], ...] = ([], [], [])
     for g0, g1, values in station_values(fl):  # values (3, cases, stations of the run)
@@ -179,7 +172,6 @@ def solve_floor(
         for views, q in zip(station_views, values):
             views.extend(map(q.__getitem__, at_stations))
     m, v, d = station_views
-    r, mn, dn, th = node_views
     made = _new_many(
         CaseResults,
         stations=fl.stations,
@@ -197,6 +189,12 @@ def solve_floor(
 def _freeze(*arrays: np.ndarray) -> None:
     for a in arrays:
         a.setflags(write=False)
+
+
+def _node_views(fl: _Floor, *arrays: np.ndarray) -> list[list[np.ndarray]]:
+    """Each strip's part (its cases, its nodes) of each floor node array (n_cols, n_nodes)."""
+    at = list(zip(map(slice, repeat(0), fl.n_cases), _slices(fl.node_off.tolist())))
+    return [list(map(a.__getitem__, at)) for a in arrays]
 
 
 def _slices(offsets: list[int]) -> list[slice]:

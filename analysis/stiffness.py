@@ -105,14 +105,15 @@ class NodeSolution:
     _length_m: np.ndarray = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
-        mn = self.node_moment_knm.T
-        me = self.elastic_node_moment_knm.T
-        object.__setattr__(self, "_seg_m0", np.ascontiguousarray(mn[:-1]))
-        object.__setattr__(self, "_seg_dm", np.ascontiguousarray(mn[1:] - mn[:-1]))
-        y_rows = tuple(
-            np.ascontiguousarray(a)
-            for a in (self.node_v_m.T[:-1], self.node_theta_rad.T[:-1], me[:-1], me[1:])
+        m0, dm, y_rows = segment_rows(
+            self.node_moment_knm,
+            self.elastic_node_moment_knm,
+            self.node_v_m,
+            self.node_theta_rad,
+            np.arange(self.node_moment_knm.shape[1] - 1),
         )
+        object.__setattr__(self, "_seg_m0", m0)
+        object.__setattr__(self, "_seg_dm", dm)
         object.__setattr__(self, "_seg_y", y_rows)
         lengths = np.diff(np.asarray(self.model.node_x_mm, dtype=float)) / 1000.0
         object.__setattr__(self, "_length_m", lengths)
@@ -185,6 +186,24 @@ class NodeSolution:
     ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """(M kNm, V kN, deflection mm) at stations idx, each of shape (n_cases, n_idx)."""
         return self.moments_t(idx).T, self.shears_t(idx).T, self.deflections_t(idx).T
+
+
+def segment_rows(
+    node_m: np.ndarray,
+    elastic_m: np.ndarray,
+    node_v: np.ndarray,
+    node_theta: np.ndarray,
+    left: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray, tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]]:
+    """What ``NodeSolution`` evaluates stations from, per segment (rows) and case, from its
+    node arrays (cases, nodes) and the left node of each segment (``left + 1`` is its right
+    node): M at the left node, M's change along the segment, and (v, theta, elastic M at the
+    left node, elastic M at the right node) for the deflection. One beam or a whole floor
+    (``analysis.floor``), with the same arithmetic."""
+    mn, me = node_m.T, elastic_m.T
+    right = left + 1
+    m_left = mn[left]
+    return m_left, mn[right] - m_left, (node_v.T[left], node_theta.T[left], me[left], me[right])
 
 
 def element_matrices(length_m: np.ndarray, ei: float | np.ndarray) -> np.ndarray:
